@@ -1,0 +1,311 @@
+package acquire
+
+import (
+	"bufio"
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"unsafe"
+)
+
+// readBufferSize is the bufio buffer used by the readers. Lines longer than
+// this are gathered into a separate growing buffer up to maxLineBytes.
+const (
+	readBufferSize = 1 << 20
+	maxLineBytes   = 64 << 20
+)
+
+var utf8BOM = []byte{0xEF, 0xBB, 0xBF}
+
+// lineReader hands out the lines of a stream one at a time without holding
+// more than the current line. Line ends (LF or CRLF) are removed; a UTF-8
+// byte-order mark at the start of the stream is skipped.
+type lineReader struct {
+	br   *bufio.Reader
+	name string
+	line int // number of the line last returned
+	long []byte
+	// terminated reports whether the last line returned ended with a line
+	// feed (false only for a final line cut off at end of file).
+	terminated bool
+	started    bool
+}
+
+func newLineReader(r io.Reader, name string) *lineReader {
+	br, ok := r.(*bufio.Reader)
+	if !ok || br.Size() < readBufferSize {
+		br = bufio.NewReaderSize(r, readBufferSize)
+	}
+	return &lineReader{br: br, name: name}
+}
+
+// next returns the next line, valid until the following call, and false at
+// end of input. I/O errors are returned as they are.
+func (lr *lineReader) next() ([]byte, bool, error) {
+	if !lr.started {
+		lr.started = true
+		if b, err := lr.br.Peek(3); err == nil && bytes.Equal(b, utf8BOM) {
+			lr.br.Discard(3)
+		}
+	}
+	b, err := lr.br.ReadSlice('\n')
+	if errors.Is(err, bufio.ErrBufferFull) {
+		lr.long = append(lr.long[:0], b...)
+		for errors.Is(err, bufio.ErrBufferFull) {
+			if len(lr.long) > maxLineBytes {
+				return nil, false, &ParseError{File: lr.name, Line: lr.line + 1,
+					Err: kerr(ErrSyntax, fmt.Sprintf("line longer than %d bytes", maxLineBytes)), Expected: "a line of CSV text"}
+			}
+			b, err = lr.br.ReadSlice('\n')
+			lr.long = append(lr.long, b...)
+		}
+		b = lr.long
+	}
+	switch {
+	case err == io.EOF:
+		if len(b) == 0 {
+			return nil, false, nil
+		}
+		lr.terminated = false
+	case err != nil:
+		return nil, false, err
+	default:
+		lr.terminated = true
+		b = b[:len(b)-1]
+	}
+	if n := len(b); n > 0 && b[n-1] == '\r' {
+		b = b[:n-1]
+	}
+	lr.line++
+	return b, true, nil
+}
+
+// isBlank reports whether a line holds only spaces and tabs.
+func isBlank(b []byte) bool {
+	for _, c := range b {
+		if c != ' ' && c != '\t' {
+			return false
+		}
+	}
+	return true
+}
+
+// isComment reports whether a line starts, after spaces, with prefix.
+func isComment(b []byte, prefix []byte) bool {
+	if len(prefix) == 0 {
+		return false
+	}
+	return bytes.HasPrefix(bytes.TrimLeft(b, " \t"), prefix)
+}
+
+// splitter cuts a line into fields at a delimiter, honouring RFC 4180
+// quoting ("a ""quoted"" field"). Quoted fields must close on the same
+// line.
+type splitter struct {
+	delim   byte
+	fields  [][]byte
+	scratch []byte
+}
+
+// splitError is a structural problem in a line: the 1-based field index
+// and a message.
+type splitError struct {
+	field int
+	msg   string
+}
+
+// split returns the fields of line, valid until the next call.
+func (s *splitter) split(line []byte) ([][]byte, *splitError) {
+	s.fields = s.fields[:0]
+	if bytes.IndexByte(line, '"') < 0 {
+		for {
+			i := bytes.IndexByte(line, s.delim)
+			if i < 0 {
+				s.fields = append(s.fields, line)
+				return s.fields, nil
+			}
+			s.fields = append(s.fields, line[:i])
+			line = line[i+1:]
+		}
+	}
+	s.scratch = s.scratch[:0]
+	for {
+		// Leading spaces before an opening quote are allowed.
+		j := 0
+		for j < len(line) && line[j] == ' ' {
+			j++
+		}
+		if j < len(line) && line[j] == '"' {
+			start := len(s.scratch)
+			k := j + 1
+			closed := false
+			for k < len(line) {
+				c := line[k]
+				if c == '"' {
+					if k+1 < len(line) && line[k+1] == '"' {
+						s.scratch = append(s.scratch, '"')
+						k += 2
+						continue
+					}
+					closed = true
+					k++
+					break
+				}
+				s.scratch = append(s.scratch, c)
+				k++
+			}
+			if !closed {
+				return nil, &splitError{len(s.fields) + 1, "quoted field not closed before the end of the line"}
+			}
+			for k < len(line) && line[k] == ' ' {
+				k++
+			}
+			s.fields = append(s.fields, s.scratch[start:len(s.scratch):len(s.scratch)])
+			if k == len(line) {
+				return s.fields, nil
+			}
+			if line[k] != s.delim {
+				return nil, &splitError{len(s.fields), fmt.Sprintf("%q after a closing quote", line[k])}
+			}
+			line = line[k+1:]
+			continue
+		}
+		i := bytes.IndexByte(line, s.delim)
+		f := line
+		if i >= 0 {
+			f = line[:i]
+		}
+		if bytes.IndexByte(f, '"') >= 0 {
+			return nil, &splitError{len(s.fields) + 1, "quote inside an unquoted field"}
+		}
+		s.fields = append(s.fields, f)
+		if i < 0 {
+			return s.fields, nil
+		}
+		line = line[i+1:]
+	}
+}
+
+// detectDelimiter picks the delimiter of a header row: tab if the row has a
+// tab outside quotes, else semicolon if it has one, else comma.
+func detectDelimiter(header []byte) byte {
+	var tab, semi bool
+	inQuote := false
+	for _, c := range header {
+		switch {
+		case c == '"':
+			inQuote = !inQuote
+		case inQuote:
+		case c == '\t':
+			tab = true
+		case c == ';':
+			semi = true
+		}
+	}
+	switch {
+	case tab:
+		return '\t'
+	case semi:
+		return ';'
+	}
+	return ','
+}
+
+// numberStatus is the outcome of parsing a numeric field.
+type numberStatus int
+
+const (
+	numOK numberStatus = iota
+	numEmpty
+	numSyntax
+	numNonFinite
+	numWrongMark // decimal mark differs from the one the file uses
+)
+
+// numberParser parses decimal numbers from byte slices without allocating.
+// It accepts an optional sign, digits with at most one decimal mark, and an
+// optional exponent; no hexadecimal, underscores, digit grouping, NaN or
+// infinity. The decimal mark is '.' or ',' (',' only when the delimiter is
+// not a comma); the first mark seen fixes it for the rest of the file.
+type numberParser struct {
+	allowComma bool
+	mark       byte // 0 until the first mark is seen
+	buf        [64]byte
+}
+
+// parse returns the value of field b, trimmed of spaces.
+func (p *numberParser) parse(b []byte) (float64, numberStatus) {
+	for len(b) > 0 && b[0] == ' ' {
+		b = b[1:]
+	}
+	for len(b) > 0 && b[len(b)-1] == ' ' {
+		b = b[:len(b)-1]
+	}
+	if len(b) == 0 {
+		return 0, numEmpty
+	}
+	markAt := -1
+	digits := 0
+	for i, c := range b {
+		switch {
+		case c >= '0' && c <= '9':
+			digits++
+		case c == '.' || c == ',':
+			if markAt >= 0 {
+				return 0, numSyntax
+			}
+			markAt = i
+		case c == 'e' || c == 'E' || c == '+' || c == '-':
+		default:
+			if isNonFiniteWord(b) {
+				return 0, numNonFinite
+			}
+			return 0, numSyntax
+		}
+	}
+	if digits == 0 {
+		return 0, numSyntax
+	}
+	if markAt >= 0 {
+		m := b[markAt]
+		if m == ',' && !p.allowComma {
+			return 0, numSyntax
+		}
+		if p.mark == 0 {
+			p.mark = m
+		} else if p.mark != m {
+			return 0, numWrongMark
+		}
+		if m == ',' {
+			if len(b) > len(p.buf) {
+				return 0, numSyntax
+			}
+			n := copy(p.buf[:], b)
+			p.buf[markAt] = '.'
+			b = p.buf[:n]
+		}
+	}
+	v, err := strconv.ParseFloat(unsafe.String(unsafe.SliceData(b), len(b)), 64)
+	if err != nil {
+		var ne *strconv.NumError
+		if errors.As(err, &ne) && errors.Is(ne.Err, strconv.ErrRange) && math.IsInf(v, 0) {
+			return 0, numNonFinite
+		}
+		return 0, numSyntax
+	}
+	return v, numOK
+}
+
+// isNonFiniteWord reports whether b spells NaN or infinity in a way a
+// spreadsheet or a C/Go/Python program might print it.
+func isNonFiniteWord(b []byte) bool {
+	s := bytes.ToLower(bytes.TrimLeft(b, "+-"))
+	switch string(s) {
+	case "nan", "inf", "infinity", "1.#inf", "1.#ind", "1.#qnan", "#num!", "#div/0!":
+		return true
+	}
+	return false
+}
