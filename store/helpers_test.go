@@ -1,0 +1,5 @@
+package store_test
+
+import "math"
+
+func nan() float64 { return math.NaN() }
