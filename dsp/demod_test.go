@@ -1,0 +1,233 @@
+package dsp
+
+import (
+	"math"
+	"math/cmplx"
+	"strings"
+	"testing"
+
+	"whorl/acquire"
+	"whorl/dsp/dsptest"
+)
+
+func deg(r float64) float64 { return r * 180 / math.Pi }
+
+// phaseDiffDeg returns the wrapped difference arg(a) − arg(b) in degrees.
+func phaseDiffDeg(a, b complex128) float64 { return deg(cmplx.Phase(a / b)) }
+
+func TestDemodulateMultiTone(t *testing.T) {
+	t.Parallel()
+	const fs = 1e6
+	// Known amplitudes and phases: the closed-form input of dsptest.MultiTone.
+	tones := []dsptest.Tone{
+		{FreqHz: 400e3, AmplitudeV: 1.3, PhaseRad: 40 * math.Pi / 180},
+		{FreqHz: 100e3, AmplitudeV: 0.7, PhaseRad: -120 * math.Pi / 180},
+		{FreqHz: 103.7e3, AmplitudeV: 0.05, PhaseRad: 3},
+		{FreqHz: 20e3, AmplitudeV: 2.1, PhaseRad: 170 * math.Pi / 180},
+	}
+	refPhase := []float64{0.3, -1.1, 2.0, 0.9}
+	n := 200000
+	v := dsptest.MultiTone(n, fs, tones)
+	var refTones []dsptest.Tone
+	for k, tn := range tones {
+		refTones = append(refTones, dsptest.Tone{FreqHz: tn.FreqHz, AmplitudeV: 2, PhaseRad: refPhase[k]})
+	}
+	r := dsptest.MultiTone(n, fs, refTones)
+	freqs := []float64{400e3, 100e3, 103.7e3, 20e3}
+	for _, c := range []struct {
+		name   string
+		ref    []float64
+		rate   float64
+		lp     float64
+		refDeg func(k int) float64
+	}{
+		{"no reference", nil, 2000, 0, func(int) float64 { return 0 }},
+		{"recorded reference", r, 2000, 0, func(k int) float64 { return deg(refPhase[k]) }},
+		// A 500 Hz low-pass keeps the 3.7 kHz neighbours apart (2×70 dB).
+		{"rate 10 kHz", nil, 10000, 500, func(int) float64 { return 0 }},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			t.Parallel()
+			rec := &acquire.RawRecord{Coil: "diff", Mode: acquire.Differential, SampleRateHz: fs, ExcitationHz: freqs, VoltageV: v, ReferenceV: c.ref}
+			scan, rep, err := Demodulate(rec, DemodOptions{OutputRateHz: c.rate, LowpassHz: c.lp})
+			if err != nil {
+				t.Fatal(err)
+			}
+			if rep.OutputRateHz != c.rate || len(rep.Warnings) != 0 {
+				t.Errorf("output rate %v, warnings %q; want %v, none", rep.OutputRateHz, rep.Warnings, c.rate)
+			}
+			for k, tn := range tones {
+				ch := scan.Channels[k]
+				want := tn.Phasor() * cmplx.Rect(1, -c.refDeg(k)*math.Pi/180)
+				for i, z := range ch.Samples {
+					// Tolerances from the requirement: 1e-4 relative amplitude, 0.01°.
+					relAmp := cmplx.Abs(z)/tn.AmplitudeV - 1
+					dph := phaseDiffDeg(z, want)
+					if math.Abs(relAmp) > 1e-4 || math.Abs(dph) > 0.01 {
+						t.Fatalf("%s sample %d: z = %v, want %v: amplitude error %.2e (1e-4), phase error %.4f° (0.01°)", ch.Name, i, z, want, relAmp, dph)
+					}
+				}
+				if c.ref != nil && math.Abs(deg(rep.Tones[k].ReferencePhaseRad)-c.refDeg(k)) > 0.01 {
+					t.Errorf("%s: reported reference phase %.4f°, want %.4f°", ch.Name, deg(rep.Tones[k].ReferencePhaseRad), c.refDeg(k))
+				}
+				if c.ref == nil && math.Abs(phaseDiffDeg(cmplx.Rect(1, rep.Tones[k].EstimatedPhaseRad), tn.Phasor())) > 0.01 {
+					t.Errorf("%s: estimated phase %.4f°, want %.4f°", ch.Name, deg(rep.Tones[k].EstimatedPhaseRad), deg(tn.PhaseRad))
+				}
+			}
+		})
+	}
+}
+
+// TestDemodulateLeakage: a single tone demodulated at the other
+// frequencies gives less than −80 dB of its amplitude (requirement).
+func TestDemodulateLeakage(t *testing.T) {
+	t.Parallel()
+	const fs = 1e6
+	freqs := []float64{400e3, 100e3, 103.7e3, 20e3}
+	for j, f := range freqs {
+		v := dsptest.MultiTone(100000, fs, []dsptest.Tone{{FreqHz: f, AmplitudeV: 1, PhaseRad: 0.2}})
+		rec := &acquire.RawRecord{Coil: "abs", Mode: acquire.Absolute, SampleRateHz: fs, ExcitationHz: freqs, VoltageV: v}
+		scan, _, err := Demodulate(rec, DemodOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for k, ch := range scan.Channels {
+			if k == j {
+				continue
+			}
+			var peak float64
+			for _, z := range ch.Samples {
+				peak = math.Max(peak, cmplx.Abs(z))
+			}
+			if db := 20 * math.Log10(peak); db > -80 {
+				t.Errorf("tone %v Hz leaks %.1f dB into %s, want below -80 dB", f, db, ch.Name)
+			}
+		}
+	}
+}
+
+// TestDemodulateZeroDelay: an amplitude ramp A(t) = 1 + 2t is returned at
+// the output time stamps without delay (a symmetric kernel and a
+// forward–backward filter pass a linear function unchanged).
+func TestDemodulateZeroDelay(t *testing.T) {
+	t.Parallel()
+	const fs = 200e3
+	const f = 30e3
+	n := 100000
+	v := make([]float64, n)
+	for i := range v {
+		ti := float64(i) / fs
+		v[i] = (1 + 2*ti) * math.Cos(2*math.Pi*f*ti+0.5)
+	}
+	rec := &acquire.RawRecord{Coil: "abs", SampleRateHz: fs, ExcitationHz: []float64{f}, VoltageV: v, Mode: acquire.Absolute}
+	scan, _, err := Demodulate(rec, DemodOptions{OutputRateHz: 1000, LowpassHz: 100})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, z := range scan.Channels[0].Samples {
+		want := (1 + 2*scan.TimeS[i])
+		if math.Abs(cmplx.Abs(z)-want) > 1e-4*want {
+			t.Fatalf("sample %d at %v s: |z| = %v, want %v (1e-4)", i, scan.TimeS[i], cmplx.Abs(z), want)
+		}
+	}
+}
+
+func TestDemodulateMultiplexed(t *testing.T) {
+	t.Parallel()
+	const fs = 1e6
+	const slot = 1e-3
+	tones := []dsptest.Tone{
+		{FreqHz: 400e3, AmplitudeV: 1.3, PhaseRad: 40 * math.Pi / 180},
+		{FreqHz: 100e3, AmplitudeV: 0.7, PhaseRad: -120 * math.Pi / 180},
+		{FreqHz: 20e3, AmplitudeV: 2.1, PhaseRad: 170 * math.Pi / 180},
+	}
+	n := 100000
+	v := dsptest.Multiplexed(n, fs, slot, tones)
+	refPh := []float64{0.1, 0.2, -0.3}
+	var rt []dsptest.Tone
+	for k, tn := range tones {
+		rt = append(rt, dsptest.Tone{FreqHz: tn.FreqHz, AmplitudeV: 1, PhaseRad: refPh[k]})
+	}
+	r := dsptest.Multiplexed(n, fs, slot, rt)
+	for _, withRef := range []bool{false, true} {
+		rec := &acquire.RawRecord{Coil: "diff", Mode: acquire.Differential, SampleRateHz: fs, SlotS: slot,
+			ExcitationHz: []float64{400e3, 100e3, 20e3}, VoltageV: v}
+		if withRef {
+			rec.ReferenceV = r
+		}
+		scan, rep, err := Demodulate(rec, DemodOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if rep.OutputRateHz != 1/(3*slot) || scan.Len() < 25 {
+			t.Errorf("rate %v Hz, %d samples; want %v Hz, ≥ 25 samples", rep.OutputRateHz, scan.Len(), 1/(3*slot))
+		}
+		for k, tn := range tones {
+			want := tn.Phasor()
+			if withRef {
+				want *= cmplx.Rect(1, -refPh[k])
+			}
+			for i, z := range scan.Channels[k].Samples {
+				relAmp := cmplx.Abs(z)/tn.AmplitudeV - 1
+				dph := phaseDiffDeg(z, want)
+				// Requirement: 1e-4 relative amplitude and 0.01°.
+				if math.Abs(relAmp) > 1e-4 || math.Abs(dph) > 0.01 {
+					t.Fatalf("reference %v, %s sample %d: z = %v, want %v (amplitude %.2e, phase %.4f°)", withRef, scan.Channels[k].Name, i, z, want, relAmp, dph)
+				}
+			}
+		}
+	}
+}
+
+func TestDemodulateErrors(t *testing.T) {
+	t.Parallel()
+	good := func() *acquire.RawRecord {
+		return &acquire.RawRecord{Coil: "abs", SampleRateHz: 1e5, ExcitationHz: []float64{1e4}, VoltageV: make([]float64, 50000)}
+	}
+	for _, c := range []struct {
+		name string
+		mod  func(r *acquire.RawRecord)
+		opt  DemodOptions
+		want string
+	}{
+		{"nan sample", func(r *acquire.RawRecord) { r.VoltageV[17] = math.NaN() }, DemodOptions{}, "voltage sample 17"},
+		{"excitation above nyquist", func(r *acquire.RawRecord) { r.ExcitationHz[0] = 6e4 }, DemodOptions{}, "excitation 60000 Hz"},
+		{"no samples", func(r *acquire.RawRecord) { r.VoltageV = nil }, DemodOptions{}, "no voltage samples"},
+		{"reference length", func(r *acquire.RawRecord) { r.ReferenceV = make([]float64, 3) }, DemodOptions{}, "3 reference samples"},
+		{"lowpass too high", func(*acquire.RawRecord) {}, DemodOptions{OutputRateHz: 1000, LowpassHz: 600}, "low-pass 600 Hz"},
+		{"too short", func(r *acquire.RawRecord) { r.VoltageV = r.VoltageV[:100] }, DemodOptions{}, "too short"},
+		{"silent reference", func(r *acquire.RawRecord) { r.ReferenceV = make([]float64, 50000) }, DemodOptions{}, "no component"},
+		{"settle beyond slot", func(r *acquire.RawRecord) { r.SlotS = 1e-3 }, DemodOptions{SettleS: 2e-3}, "settling time"},
+	} {
+		r := good()
+		c.mod(r)
+		_, _, err := Demodulate(r, c.opt)
+		if err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("%s: error %v, want one containing %q", c.name, err, c.want)
+		}
+	}
+}
+
+func TestDemodulateCloseTonesWarning(t *testing.T) {
+	t.Parallel()
+	v := dsptest.MultiTone(200000, 1e6, []dsptest.Tone{{FreqHz: 100e3, AmplitudeV: 1}})
+	rec := &acquire.RawRecord{Coil: "abs", SampleRateHz: 1e6, ExcitationHz: []float64{100e3, 103.7e3}, VoltageV: v}
+	_, rep, err := Demodulate(rec, DemodOptions{OutputRateHz: 10000})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rep.Warnings) != 1 || !strings.Contains(rep.Warnings[0], "3700 Hz apart") {
+		t.Errorf("warnings %q, want one about tones 3700 Hz apart", rep.Warnings)
+	}
+}
+
+func TestFlawBandWarning(t *testing.T) {
+	t.Parallel()
+	// 0.5 m/s over a 2 mm coil: band 250 Hz (speed ÷ coil length).
+	if w := FlawBandWarning(100, 0.5, 2e-3); !strings.Contains(w, "250 Hz") {
+		t.Errorf("cut-off 100 Hz: warning %q, want one naming the 250 Hz band", w)
+	}
+	if w := FlawBandWarning(300, 0.5, 2e-3); w != "" {
+		t.Errorf("cut-off 300 Hz: warning %q, want none", w)
+	}
+}
