@@ -230,7 +230,9 @@ func TestBadInput(t *testing.T) {
 			_, err := an.RecordCalibration(ctx, store.Calibration{ID: "CAL-B", Body: []byte(`{"a":`)})
 			return err
 		}, "not valid JSON"},
-		{"approve twice", func() error { return s.As(storetest.ActorOf(storetest.Resolver)).ApproveCalibration(ctx, "CAL-A", 1, "") }, "already approved"},
+		{"approve twice", func() error {
+			return s.As(storetest.ActorOf(storetest.Resolver)).ApproveCalibration(ctx, "CAL-A", 1, "")
+		}, "already approved"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
