@@ -22,6 +22,11 @@ type BuildOptions struct {
 	Builder string
 	// At is the build time.
 	At time.Time
+	// Opening, when set, is the opening calibration of the group this
+	// (closing) calibration checks: its trained mixes are applied as they
+	// are instead of being trained again, so that the closing check
+	// compares like with like.
+	Opening *Calibration
 }
 
 // ScanPositions returns the axial position of every sample of s in
@@ -188,8 +193,21 @@ func Build(std *Standard, proc *Procedure, scan *acquire.Scan, opt BuildOptions)
 		samples[c.Name] = c.Samples
 		modes[c.Name] = c.Mode == acquire.Absolute
 	}
+	if opt.Opening != nil {
+		cal.OpeningID = opt.Opening.ID
+	}
 	for _, m := range proc.Mixes {
-		rec, out, err := trainMix(m, samples, found, len(posM), stepM)
+		var rec *MixRecord
+		var out []complex128
+		var err error
+		if opt.Opening != nil {
+			if rec = opt.Opening.Mix(m.Name); rec == nil {
+				return nil, fmt.Errorf("opening calibration %s has no mix %s", opt.Opening.ID, m.Name)
+			}
+			out, err = rec.Apply(nil, samples)
+		} else {
+			rec, out, err = trainMix(m, samples, found, len(posM), stepM)
+		}
 		if err != nil {
 			return nil, err
 		}
@@ -406,7 +424,15 @@ func locateFlaws(std *Standard, rule LocateRule, z []complex128, posM []float64,
 				}
 			}
 			if isMax {
-				cands = append(cands, candidate{sample: i, posM: posM[i], spread: sp[i]})
+				// The spread is flat while the window holds the whole
+				// signal: take the middle of the plateau.
+				j := i
+				for j+1 < n && sp[j+1] == sp[i] {
+					j++
+				}
+				c := (i + j) / 2
+				cands = append(cands, candidate{sample: c, posM: posM[c], spread: sp[i]})
+				i = j
 			}
 		}
 	}

@@ -55,6 +55,9 @@ type Calibration struct {
 	ScanComponent string `json:"scan_component"`
 	ScanStart     string `json:"scan_start,omitempty"` // RFC 3339; empty when unknown
 	ProbeID       string `json:"probe_id,omitempty"`
+	// OpeningID names the opening calibration whose mixes a closing
+	// calibration reused (empty for an opening calibration).
+	OpeningID string `json:"opening_id,omitempty"`
 	// Lobe is the procedure's lobe convention the phases were measured with.
 	Lobe string `json:"lobe"`
 

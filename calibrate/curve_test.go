@@ -55,9 +55,9 @@ func TestPolynomialAgainstNumpy(t *testing.T) {
 			Residuals []float64 `json:"residuals"`
 		} `json:"fits"`
 		PA struct {
-			Call    string    `json:"call"`
-			Vpp     float64   `json:"eval_vpp"`
-			Values  []float64 `json:"values"`
+			Call   string    `json:"call"`
+			Vpp    float64   `json:"eval_vpp"`
+			Values []float64 `json:"values"`
 		} `json:"phase_amplitude"`
 	}
 	if err := json.Unmarshal(b, &ref); err != nil {

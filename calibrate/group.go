@@ -90,6 +90,12 @@ func CheckClosing(open, closing *Calibration, proc *Procedure) GroupCheck {
 			fail("channel %s is missing from the closing calibration", oc.Channel)
 			continue
 		}
+		if om := open.Mix(oc.Channel); om != nil {
+			if cm := closing.Mix(oc.Channel); cm == nil || !sameMix(om, cm) {
+				fail("mix %s of the closing calibration was trained again instead of reusing the opening mix, so its references cannot be compared", oc.Channel)
+				continue
+			}
+		}
 		refs := tol.References
 		if len(refs) == 0 {
 			refs = dedupe([]string{oc.RotationRef.Reference, oc.NormRef.Reference})
@@ -171,3 +177,16 @@ func EvaluateGroup(name string, open, closing *Calibration, proc *Procedure, sca
 
 // Reportable reports whether results of the group may enter the final report.
 func (g *Group) Reportable() bool { return g.Status == GroupValid }
+
+// sameMix reports whether two mix records have the same coefficients.
+func sameMix(a, b *MixRecord) bool {
+	if a.Mix == nil || b.Mix == nil || len(a.Mix.Matrices) != len(b.Mix.Matrices) || a.Mix.OffsetV != b.Mix.OffsetV {
+		return false
+	}
+	for k := range a.Mix.Matrices {
+		if a.Mix.Matrices[k] != b.Mix.Matrices[k] {
+			return false
+		}
+	}
+	return true
+}

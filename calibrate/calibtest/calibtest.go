@@ -163,9 +163,23 @@ func (m Model) StandardFeatures(std *calibrate.Standard) []Feature {
 			}
 			resp = m.FlawResponse(f.AsBuiltDepthPct, origin, n*math.Pi*f.DiameterM*f.DiameterM/4)
 		}
-		fs = append(fs, Feature{CentreM: f.AxialPositionM, Response: resp, LengthM: f.WidthM + f.ThicknessM})
+		fs = append(fs, Feature{CentreM: f.AxialPositionM, Response: resp, LengthM: math.Max(f.WidthM, f.ThicknessM)})
 	}
 	return fs
+}
+
+// shape is the absolute coil's response at z to a feature: a uniform
+// feature of length LengthM blurred by the Gaussian coil sensitivity,
+// ½[erf((z−z1)/(√2σ)) − erf((z−z2)/(√2σ))], scaled to 1 at the centre
+// (a Gaussian for a short feature).
+func (m Model) shape(z float64, ft Feature) float64 {
+	s := math.Sqrt2 * m.CoilSigmaM
+	h := ft.LengthM / 2
+	if h < 1e-6 {
+		u := (z - ft.CentreM) / m.CoilSigmaM
+		return math.Exp(-u * u / 2)
+	}
+	return (math.Erf((z-ft.CentreM+h)/s) - math.Erf((z-ft.CentreM-h)/s)) / (2 * math.Erf(h/s))
 }
 
 // Scan draws a scan of the features with noise from rng.
@@ -176,7 +190,6 @@ func (m Model) Scan(component string, features []Feature, rng *rand.Rand) *acqui
 	for i := range s.PositionM {
 		s.PositionM[i] = m.OffsetM + m.Scale*float64(i)*m.StepM
 	}
-	g := func(u, sig float64) float64 { return math.Exp(-u * u / (2 * sig * sig)) }
 	for fi, f := range m.FreqsHz {
 		rot, gain := 0.0, 1.0
 		if m.RotRad != nil {
@@ -192,10 +205,9 @@ func (m Model) Scan(component string, features []Feature, rng *rand.Rand) *acqui
 				if math.Abs(z-ft.CentreM) > 8*m.CoilSigmaM+ft.LengthM {
 					continue
 				}
-				sa := math.Hypot(m.CoilSigmaM, ft.LengthM/2.5)
-				d := g(z-ft.CentreM-m.SpacingM/2, sa) - g(z-ft.CentreM+m.SpacingM/2, sa)
+				d := m.shape(z-m.SpacingM/2, ft) - m.shape(z+m.SpacingM/2, ft)
 				diff[i] += ft.Response[fi] * complex(d, 0)
-				abs[i] += ft.Response[fi] * complex(g(z-ft.CentreM, sa), 0)
+				abs[i] += ft.Response[fi] * complex(m.shape(z, ft), 0)
 			}
 			diff[i] = inst*diff[i] + complex(m.NoiseV*rng.NormFloat64(), m.NoiseV*rng.NormFloat64())
 			abs[i] = inst*abs[i] + complex(1.5*m.NoiseV*rng.NormFloat64(), 1.5*m.NoiseV*rng.NormFloat64())
