@@ -32,12 +32,29 @@ type lineReader struct {
 	// feed (false only for a final line cut off at end of file).
 	terminated bool
 	started    bool
+	// pending is a line handed back by pushBack.
+	pending           []byte
+	pendingLine       int
+	pendingTerminated bool
+	hasPending        bool
+}
+
+// pushBack makes the next call of next return line (a copy is kept) as
+// line number n again.
+func (lr *lineReader) pushBack(line []byte, n int) {
+	lr.pending = bytes.Clone(line)
+	lr.pendingLine, lr.pendingTerminated, lr.hasPending = n, lr.terminated, true
 }
 
 func newLineReader(r io.Reader, name string) *lineReader {
+	size := readBufferSize
+	// A small in-memory input needs no large buffer.
+	if l, ok := r.(interface{ Len() int }); ok && l.Len() < size {
+		size = max(l.Len()+1, 4096)
+	}
 	br, ok := r.(*bufio.Reader)
-	if !ok || br.Size() < readBufferSize {
-		br = bufio.NewReaderSize(r, readBufferSize)
+	if !ok || br.Size() < size {
+		br = bufio.NewReaderSize(r, size)
 	}
 	return &lineReader{br: br, name: name}
 }
@@ -45,6 +62,11 @@ func newLineReader(r io.Reader, name string) *lineReader {
 // next returns the next line, valid until the following call, and false at
 // end of input. I/O errors are returned as they are.
 func (lr *lineReader) next() ([]byte, bool, error) {
+	if lr.hasPending {
+		lr.hasPending = false
+		lr.line, lr.terminated = lr.pendingLine, lr.pendingTerminated
+		return lr.pending, true, nil
+	}
 	if !lr.started {
 		lr.started = true
 		if b, err := lr.br.Peek(3); err == nil && bytes.Equal(b, utf8BOM) {

@@ -119,27 +119,26 @@ type metaLine struct {
 	line       int
 }
 
-// readPreamble checks the format line, gathers the metadata lines and
-// returns the header row (a copy) and its line number.
-func readPreamble(lr *lineReader, k Kind) ([]metaLine, []byte, int, error) {
+// readPreamble checks the format line, hands each metadata line to apply
+// as it is read, and returns the header row (a copy) and its line number.
+func readPreamble(lr *lineReader, k Kind, apply func(metaLine) error) ([]byte, int, error) {
 	first, ok, err := lr.next()
 	if err != nil {
-		return nil, nil, 0, err
+		return nil, 0, err
 	}
 	if !ok {
-		return nil, nil, 0, &ParseError{File: lr.name, Err: kerr(ErrTruncated, "empty file"), Expected: fmt.Sprintf("a first line %q", fmt.Sprintf("# %s %d", magicOf(k), formatVersion))}
+		return nil, 0, &ParseError{File: lr.name, Err: kerr(ErrTruncated, "empty file"), Expected: fmt.Sprintf("a first line %q", fmt.Sprintf("# %s %d", magicOf(k), formatVersion))}
 	}
 	if err := checkFormatLine(lr.name, first, k); err != nil {
-		return nil, nil, 0, err
+		return nil, 0, err
 	}
-	var metas []metaLine
 	for {
 		line, ok, err := lr.next()
 		if err != nil {
-			return nil, nil, 0, err
+			return nil, 0, err
 		}
 		if !ok {
-			return nil, nil, 0, &ParseError{File: lr.name, Line: lr.line, Err: kerr(ErrTruncated, "file ends before the header row"), Expected: "a header row naming each column with its unit"}
+			return nil, 0, &ParseError{File: lr.name, Line: lr.line, Err: kerr(ErrTruncated, "file ends before the header row"), Expected: "a header row naming each column with its unit"}
 		}
 		if isBlank(line) {
 			continue
@@ -153,14 +152,16 @@ func readPreamble(lr *lineReader, k Kind) ([]metaLine, []byte, int, error) {
 			if strings.HasPrefix(value, `"`) {
 				u, err := strconv.Unquote(value)
 				if err != nil {
-					return nil, nil, 0, &ParseError{File: lr.name, Line: lr.line, Field: key, Err: kerr(ErrFormat, fmt.Sprintf("bad quoted value %s", clip(value))), Expected: "a value in double quotes with Go/C escapes"}
+					return nil, 0, &ParseError{File: lr.name, Line: lr.line, Field: key, Err: kerr(ErrFormat, fmt.Sprintf("bad quoted value %s", clip(value))), Expected: "a value in double quotes with Go/C escapes"}
 				}
 				value = u
 			}
-			metas = append(metas, metaLine{key, value, lr.line})
+			if err := apply(metaLine{key, value, lr.line}); err != nil {
+				return nil, 0, err
+			}
 			continue
 		}
-		return metas, bytes.Clone(line), lr.line, nil
+		return bytes.Clone(line), lr.line, nil
 	}
 }
 
@@ -310,6 +311,9 @@ func unitColumn(c *column, k units.Kind, unit string, scale float64) bool {
 	}
 	c.factor = f * scale
 	c.expected = "a decimal number in " + unit
+	if scale == 1 {
+		c.unit = unit
+	}
 	return true
 }
 
@@ -320,49 +324,43 @@ func unitList(k units.Kind) string { return strings.Join(units.Names(k), ", ") }
 // naming the line and column. See docs/csv-format.md for the layout.
 func ReadScan(r io.Reader, name string) (*Scan, error) {
 	lr := newLineReader(r, name)
-	metas, hdr, hdrLine, err := readPreamble(lr, KindScan)
-	if err != nil {
-		return nil, err
-	}
 	s := &Scan{}
 	ms := &metaSink{name: name}
 	declLine := map[string]int{}
-	for _, m := range metas {
+	hdr, hdrLine, err := readPreamble(lr, KindScan, func(m metaLine) error {
 		ok, err := ms.common(&s.Meta, m)
-		if err != nil {
-			return nil, err
-		}
-		if ok {
-			continue
+		if err != nil || ok {
+			return err
 		}
 		switch m.key {
 		case "sample-rate":
 			if err := ms.once(m); err != nil {
-				return nil, err
+				return err
 			}
-			if s.SampleRateHz, err = ms.quantity(m, units.Frequency, true); err != nil {
-				return nil, err
-			}
+			s.SampleRateHz, err = ms.quantity(m, units.Frequency, true)
+			return err
 		case "axial-step":
 			if err := ms.once(m); err != nil {
-				return nil, err
+				return err
 			}
-			if s.AxialStepM, err = ms.quantity(m, units.Length, true); err != nil {
-				return nil, err
-			}
+			s.AxialStepM, err = ms.quantity(m, units.Length, true)
+			return err
 		case "channel":
 			c, err := parseChannelDecl(m.value)
 			if err != nil {
-				return nil, ms.errf(m, ErrFormat, "NAME; FREQUENCY Hz; absolute|differential", "%v", err)
+				return ms.errf(m, ErrFormat, "NAME; FREQUENCY Hz; absolute|differential", "%v", err)
 			}
 			if l, dup := declLine[c.Name]; dup {
-				return nil, ms.errf(m, ErrFormat, "each channel declared once", "channel %q was declared on line %d", c.Name, l)
+				return ms.errf(m, ErrFormat, "each channel declared once", "channel %q was declared on line %d", c.Name, l)
 			}
 			declLine[c.Name] = m.line
 			s.Channels = append(s.Channels, c)
-		default:
-			return nil, ms.errf(m, ErrFormat, "one of the keys "+commonKeys+", sample-rate, axial-step, channel", "unknown metadata key")
+			return nil
 		}
+		return ms.errf(m, ErrFormat, "one of the keys "+commonKeys+", sample-rate, axial-step, channel", "unknown metadata key")
+	})
+	if err != nil {
+		return nil, err
 	}
 	t := &table{lr: lr, comment: []byte("#"), nch: len(s.Channels)}
 	t.sp.delim = detectDelimiter(hdr)
@@ -686,22 +684,20 @@ func WriteScan(w io.Writer, s *Scan) error {
 // "# whorl-raw 1") from r. name is the file name used in errors.
 func ReadRaw(r io.Reader, name string) (*RawRecord, error) {
 	lr := newLineReader(r, name)
-	metas, hdr, hdrLine, err := readPreamble(lr, KindRaw)
-	if err != nil {
-		return nil, err
-	}
 	rec := &RawRecord{}
 	ms := &metaSink{name: name}
-	for _, m := range metas {
+	hdr, hdrLine, err := readPreamble(lr, KindRaw, func(m metaLine) error {
 		ok, err := ms.common(&rec.Meta, m)
-		if err != nil {
-			return nil, err
+		if err != nil || ok {
+			return err
 		}
-		if ok {
-			continue
+		switch m.key {
+		case "coil", "mode", "sample-rate", "slot", "excitation":
+		default:
+			return ms.errf(m, ErrFormat, "one of the keys "+commonKeys+", coil, mode, sample-rate, excitation, slot", "unknown metadata key")
 		}
 		if err := ms.once(m); err != nil {
-			return nil, err
+			return err
 		}
 		switch m.key {
 		case "coil":
@@ -709,28 +705,26 @@ func ReadRaw(r io.Reader, name string) (*RawRecord, error) {
 		case "mode":
 			mode, err := ParseCoilMode(m.value)
 			if err != nil {
-				return nil, ms.errf(m, ErrFormat, "absolute or differential", "%q is not a coil mode", m.value)
+				return ms.errf(m, ErrFormat, "absolute or differential", "%q is not a coil mode", m.value)
 			}
 			rec.Mode = mode
 		case "sample-rate":
-			if rec.SampleRateHz, err = ms.quantity(m, units.Frequency, true); err != nil {
-				return nil, err
-			}
+			rec.SampleRateHz, err = ms.quantity(m, units.Frequency, true)
 		case "slot":
-			if rec.SlotS, err = ms.quantity(m, units.Time, false); err != nil {
-				return nil, err
-			}
+			rec.SlotS, err = ms.quantity(m, units.Time, false)
 		case "excitation":
 			for _, p := range strings.Split(m.value, ";") {
 				f, err := units.Parse(units.Frequency, p)
 				if err != nil || !(f > 0) {
-					return nil, ms.errf(m, ErrUnit, "positive frequencies with units separated by ';', such as 100000 Hz; 400000 Hz", "%q is not a positive frequency", strings.TrimSpace(p))
+					return ms.errf(m, ErrUnit, "positive frequencies with units separated by ';', such as 100000 Hz; 400000 Hz", "%q is not a positive frequency", strings.TrimSpace(p))
 				}
 				rec.ExcitationHz = append(rec.ExcitationHz, f)
 			}
-		default:
-			return nil, ms.errf(m, ErrFormat, "one of the keys "+commonKeys+", coil, mode, sample-rate, excitation, slot", "unknown metadata key")
 		}
+		return err
+	})
+	if err != nil {
+		return nil, err
 	}
 	for _, req := range []struct{ key, what string }{{"sample-rate", "the ADC sample rate"}, {"excitation", "the excitation frequencies"}} {
 		if _, ok := ms.seen[req.key]; !ok {

@@ -60,6 +60,18 @@ type column struct {
 	header   string  // header text as written in the file, for errors
 	expected string  // what a field must hold, for errors
 	metaKey  string  // Meta key for roleMeta
+	// unit is the file's unit for messages when the column has no scale
+	// factor (empty: messages show SI values).
+	unit string
+}
+
+// show formats a value of column c for a message: in the file's unit
+// when the column is unscaled, else in SI with siUnit.
+func (c *column) show(raw, si float64, siUnit string) string {
+	if c.unit != "" {
+		return fmtG(raw) + " " + c.unit
+	}
+	return fmtG(si) + " " + siUnit
 }
 
 // table is the row-reading engine shared by the Whorl and mapped readers.
@@ -111,6 +123,7 @@ func (t *table) indexOf(r role, ch int) int {
 func (t *table) readRows() error {
 	n := len(t.cols)
 	vals := make([]float64, n)
+	raws := make([]float64, n)
 	seen := make([]bool, n)
 	runLine := make([]int, n)
 	iTime, iPos := t.indexOf(roleTime, 0), t.indexOf(rolePos, 0)
@@ -126,6 +139,7 @@ func (t *table) readRows() error {
 	var lines []int32 // line of each row, kept only for OrderSort
 	var (
 		lastT, lastP         float64
+		lastTRaw, lastPRaw   float64
 		lastTLine, lastPLine int
 		haveT, haveP         bool
 		pDir                 float64
@@ -184,6 +198,7 @@ func (t *table) readRows() error {
 			switch st {
 			case numOK:
 				vals[i] = v * c.factor
+				raws[i] = v
 				if math.IsInf(vals[i], 0) {
 					return t.errAt(ln, i+1, ErrNonFinite, c.expected, fmt.Sprintf("%q overflows after unit conversion", fields[i]))
 				}
@@ -219,7 +234,7 @@ func (t *table) readRows() error {
 				v := vals[iTime]
 				if haveT && !(v > lastT) {
 					return t.errAt(ln, iTime+1, ErrNotMonotonic, "time increasing from row to row",
-						fmt.Sprintf("time %s s is not after %s s on line %d", fmtG(v), fmtG(lastT), lastTLine))
+						fmt.Sprintf("time %s is not after %s on line %d", t.cols[iTime].show(raws[iTime], v, "s"), t.cols[iTime].show(lastTRaw, lastT, "s"), lastTLine))
 				}
 				if t.rawTimeHz > 0 {
 					if !haveT {
@@ -232,7 +247,7 @@ func (t *table) readRows() error {
 						}
 					}
 				}
-				lastT, lastTLine, haveT = v, ln, true
+				lastT, lastTRaw, lastTLine, haveT = v, raws[iTime], ln, true
 			}
 			if iPos >= 0 && !math.IsNaN(vals[iPos]) {
 				v := vals[iPos]
@@ -243,10 +258,10 @@ func (t *table) readRows() error {
 					}
 					if d == 0 || d*pDir < 0 {
 						return t.errAt(ln, iPos+1, ErrNotMonotonic, "position changing in the same direction from row to row",
-							fmt.Sprintf("position %s m does not continue from %s m on line %d", fmtG(v), fmtG(lastP), lastPLine))
+							fmt.Sprintf("position %s does not continue from %s on line %d", t.cols[iPos].show(raws[iPos], v, "m"), t.cols[iPos].show(lastPRaw, lastP, "m"), lastPLine))
 					}
 				}
-				lastP, lastPLine, haveP = v, ln, true
+				lastP, lastPRaw, lastPLine, haveP = v, raws[iPos], ln, true
 			}
 		}
 		if iTime >= 0 && !t.dropTime {
@@ -320,9 +335,9 @@ func (t *table) fillLinear(iTime, iPos, iVolt, iRef int) {
 // sortRows orders the rows by time (or by position when there is no
 // time) and rejects repeated axis values.
 func (t *table) sortRows(lines []int32, iTime, iPos int) error {
-	key, col := t.timeS, iTime
+	key, col, name, unit := t.timeS, iTime, "time", "s"
 	if key == nil {
-		key, col = t.posM, iPos
+		key, col, name, unit = t.posM, iPos, "position", "m"
 	}
 	idx := make([]int, len(key))
 	for i := range idx {
@@ -331,12 +346,8 @@ func (t *table) sortRows(lines []int32, iTime, iPos int) error {
 	sort.SliceStable(idx, func(a, b int) bool { return key[idx[a]] < key[idx[b]] })
 	for k := 1; k < len(idx); k++ {
 		if key[idx[k]] == key[idx[k-1]] {
-			name := "time"
-			if key == nil || col == iPos {
-				name = "position"
-			}
 			return t.errAt(int(lines[idx[k]]), col+1, ErrNotMonotonic, fmt.Sprintf("each %s to appear once", name),
-				fmt.Sprintf("%s %s repeats the value on line %d", name, fmtG(key[idx[k]]), lines[idx[k-1]]))
+				fmt.Sprintf("%s %s %s repeats the value on line %d", name, fmtG(key[idx[k]]), unit, lines[idx[k-1]]))
 		}
 	}
 	permF := func(s []float64) {
