@@ -1,0 +1,56 @@
+package impedance
+
+import (
+	"math"
+	"math/cmplx"
+)
+
+// panelIntegral integrates f over [0, ∞) with 21-point Gauss–Kronrod
+// panels: geometrically graded panels on [0, h] (gradeLevels of them),
+// then panels of width h. After each panel past the first few it calls
+// remainder(A), a bound of |∫_A^∞ (f − smooth)|, and stops once that is
+// below 0.1·relTol·|sum| (or at maxA). smooth, if not nil, is an
+// approximation of f valid for large α (the non-oscillating mean); its
+// integral from A to ∞ is added with the 12-point rule in u = 1/α.
+//
+// f is called at increasing α, so it may keep running state (such as the
+// ∫J0 accumulators of the coil integral). The returned error is the sum
+// over panels of |Kronrod − Gauss| plus remainder(A).
+func panelIntegral(h, maxA, relTol float64, f func(a float64) complex128, remainder func(A float64) float64, smooth func(a float64) complex128) (complex128, float64) {
+	var sum complex128
+	var errSum float64
+	edges := make([]float64, 0, gradeLevels+2)
+	edges = append(edges, 0)
+	for k := gradeLevels; k >= 0; k-- {
+		edges = append(edges, h/math.Pow(2, float64(k)))
+	}
+	A := 0.0
+	for p := 0; ; p++ {
+		var a, b float64
+		if p < len(edges)-1 {
+			a, b = edges[p], edges[p+1]
+		} else {
+			a = h * float64(p-len(edges)+2)
+			b = a + h
+		}
+		cm, hw := 0.5*(a+b), 0.5*(b-a)
+		var pk, pd complex128
+		for i, x := range gk21.x {
+			v := f(cm + hw*x)
+			pk += complex(hw*gk21.wK[i], 0) * v
+			pd += complex(hw*(gk21.wK[i]-gk21.wG[i]), 0) * v
+		}
+		sum += pk
+		errSum += cmplx.Abs(pd)
+		A = b
+		if p > gradeLevels+2 && (remainder(b) <= 0.1*relTol*cmplx.Abs(sum) || b >= maxA) {
+			break
+		}
+	}
+	if smooth != nil {
+		var tail complex128
+		forTail(A, func(a, w float64) { tail += complex(w, 0) * smooth(a) })
+		sum += tail
+	}
+	return sum, errSum + remainder(A)
+}
