@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"math/cmplx"
 	"strings"
@@ -328,6 +329,10 @@ func jsonErr(b []byte, err error) error {
 		off = se.Offset
 	case errors.As(err, &te):
 		off = te.Offset
+	}
+	if errors.Is(err, io.ErrUnexpectedEOF) || errors.Is(err, io.EOF) {
+		off = int64(len(b))
+		err = fmt.Errorf("unexpected end of input: %w", err)
 	}
 	if off < 0 || off > int64(len(b)) {
 		return err

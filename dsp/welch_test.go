@@ -168,7 +168,7 @@ func TestWelchErrors(t *testing.T) {
 func TestSNR(t *testing.T) {
 	t.Parallel()
 	z := make([]complex128, 100)
-	z[10], z[11] = 2, -2 // signal Vpp 4
+	z[10], z[11] = 2, -2       // signal Vpp 4
 	z[60], z[61] = 0.1i, -0.1i // noise Vpp 0.2
 	got, err := SNR(z, [2]int{0, 50}, [2]int{50, 100})
 	if err != nil || !scalar.EqualWithinRel(got, 20, 1e-14) {
