@@ -1,0 +1,121 @@
+package gui
+
+import (
+	"context"
+	"os"
+	"path/filepath"
+	"strings"
+
+	"fyne.io/fyne/v2"
+	"fyne.io/fyne/v2/container"
+	"fyne.io/fyne/v2/dialog"
+	"fyne.io/fyne/v2/widget"
+
+	"whorl/gui/viewmodel"
+)
+
+// Caution is shown in the about box and whenever a report is exported.
+const Caution = "Results are to be reviewed by qualified, certified personnel under a written procedure. " +
+	"The governing code, local regulations and licensed practice take precedence."
+
+// ReportDesk exports the inspection report as PDF, CSV and JSON.
+type ReportDesk struct {
+	src viewmodel.Source
+	win fyne.Window
+
+	Content fyne.CanvasObject
+
+	dir     *widget.Entry
+	formats *widget.CheckGroup
+	export  *widget.Button
+	result  *widget.Label
+	status  func(string, bool)
+	// done is called (on the UI thread) after an export finished; for tests.
+	done func(paths []string, err error)
+}
+
+// NewReportDesk builds the report desk; dir is the suggested output folder.
+func NewReportDesk(src viewmodel.Source, win fyne.Window, dir string, status func(string, bool)) *ReportDesk {
+	d := &ReportDesk{src: src, win: win, status: status}
+	d.dir = widget.NewEntry()
+	d.dir.SetText(dir)
+	d.formats = widget.NewCheckGroup([]string{"pdf", "csv", "json"}, nil)
+	d.formats.Horizontal = true
+	d.formats.SetSelected([]string{"pdf", "csv", "json"})
+	d.export = widget.NewButton("export report…", d.confirm)
+	d.export.Importance = widget.HighImportance
+	d.result = widget.NewLabel("")
+	d.result.Wrapping = fyne.TextWrapWord
+	info := src.Info()
+	head := widget.NewLabel("Report of " + info.Title)
+	head.TextStyle = fyne.TextStyle{Bold: true}
+	scope := widget.NewLabel("The report holds the identification, the calibration summary with its curves and group checks, " +
+		"the scope, every reportable indication with its figures, the people and their roles, and the record's chain head. " +
+		"Results of invalid calibration groups are left out and listed for re-test.")
+	scope.Wrapping = fyne.TextWrapWord
+	caution := widget.NewLabel("Caution: " + Caution)
+	caution.Wrapping = fyne.TextWrapWord
+	caution.Importance = widget.WarningImportance
+	caution.TextStyle = fyne.TextStyle{Bold: true}
+	form := widget.NewForm(widget.NewFormItem("output folder", d.dir), widget.NewFormItem("formats", d.formats))
+	d.Content = container.NewPadded(container.NewVBox(head, scope, form, caution, d.export, d.result))
+	return d
+}
+
+// confirm shows the caution and exports on agreement.
+func (d *ReportDesk) confirm() {
+	if d.win == nil {
+		d.Export()
+		return
+	}
+	msg := widget.NewLabel("Caution: " + Caution + "\n\nExport the report of this inspection to\n" + d.dir.Text + " ?")
+	msg.Wrapping = fyne.TextWrapWord
+	dlg := dialog.NewCustomConfirm("Export report", "export", "cancel", container.NewGridWrap(fyne.NewSize(460, 150), msg), func(ok bool) {
+		if ok {
+			d.Export()
+		}
+	}, d.win)
+	dlg.Show()
+}
+
+// Export writes the chosen formats into the folder in the background.
+func (d *ReportDesk) Export() {
+	dir := strings.TrimSpace(d.dir.Text)
+	formats := d.formats.Selected
+	if dir == "" || len(formats) == 0 {
+		d.result.SetText("choose an output folder and at least one format")
+		return
+	}
+	d.export.Disable()
+	d.result.SetText("writing the report…")
+	go func() {
+		var paths []string
+		err := os.MkdirAll(dir, 0o755)
+		if err == nil {
+			paths, err = d.src.Export(context.Background(), dir, formats)
+		}
+		fyne.Do(func() {
+			d.export.Enable()
+			if err != nil {
+				d.result.SetText("export failed: " + err.Error())
+				if d.status != nil {
+					d.status("export failed: "+err.Error(), true)
+				}
+			} else {
+				var b strings.Builder
+				b.WriteString("written:\n")
+				for _, p := range paths {
+					b.WriteString("  " + filepath.Clean(p) + "\n")
+				}
+				b.WriteString("\nCaution: " + Caution)
+				d.result.SetText(b.String())
+				if d.status != nil {
+					d.status("report exported to "+dir, false)
+				}
+			}
+			if d.done != nil {
+				d.done(paths, err)
+			}
+		})
+	}()
+}
