@@ -5,8 +5,10 @@ package storetest
 import (
 	"context"
 	"crypto/sha256"
+	"database/sql"
 	"encoding/hex"
 	"fmt"
+	"strings"
 	"sync/atomic"
 	"time"
 
@@ -179,4 +181,42 @@ func Build(ctx context.Context, path string, now func() time.Time) (*store.Store
 		return fail(err)
 	}
 	return s, nil
+}
+
+// Tamper opens the record file directly with SQL, as someone with a SQLite
+// tool could, drops the append-only triggers and executes stmts. It is for
+// tests of verification.
+func Tamper(path string, stmts ...string) error {
+	db, err := sql.Open("sqlite", path)
+	if err != nil {
+		return err
+	}
+	defer db.Close()
+	rows, err := db.Query("SELECT name FROM sqlite_master WHERE type = 'trigger'")
+	if err != nil {
+		return err
+	}
+	var names []string
+	for rows.Next() {
+		var n string
+		if err := rows.Scan(&n); err != nil {
+			rows.Close()
+			return err
+		}
+		names = append(names, n)
+	}
+	rows.Close()
+	for _, n := range names {
+		stmts = append([]string{"DROP TRIGGER " + n}, stmts...)
+	}
+	for _, q := range stmts {
+		res, err := db.Exec(q)
+		if err != nil {
+			return fmt.Errorf("%s: %w", q, err)
+		}
+		if n, err := res.RowsAffected(); err == nil && n == 0 && !strings.HasPrefix(q, "DROP") {
+			return fmt.Errorf("%s changed nothing", q)
+		}
+	}
+	return nil
 }

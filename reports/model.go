@@ -1,0 +1,184 @@
+package reports
+
+import (
+	"context"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"time"
+
+	"whorl/store"
+)
+
+// Inspection is everything a report shows: the record of one inspection
+// and, for figures, the signal around each reportable indication.
+type Inspection struct {
+	ReportID  string    `json:"report_id"`
+	Draft     bool      `json:"draft"` // no QA release covers the record as it stands
+	Generated time.Time `json:"generated"`
+
+	Record       store.Inspection   `json:"inspection"`
+	People       []store.Person     `json:"people"`
+	Components   []store.Component  `json:"components"`
+	Scans        []store.Scan       `json:"scans"`
+	Chains       []store.Document   `json:"chains"`
+	Standards    []store.Document   `json:"standards"`
+	Calibrations []Calibration      `json:"calibrations"`
+	Groups       []store.GroupCheck `json:"group_checks"`
+	Indications  []Indication       `json:"indications"`
+	Releases     []store.Release    `json:"releases"`
+	Events       []store.Event      `json:"events"`
+	Chain        store.VerifyResult `json:"chain"` // the verification the report was built on
+}
+
+// Calibration is a calibration version with its curve points, when it
+// holds a curve.
+type Calibration struct {
+	store.Calibration
+	Points []CurvePoint `json:"points,omitempty"`
+}
+
+// CurvePoint is one point of a phase-to-depth curve.
+type CurvePoint struct {
+	PhaseRad float64 `json:"phase_rad"`
+	DepthPct float64 `json:"depth_pct"`
+}
+
+// Indication is an indication with its call history and, when the caller
+// supplied it, the signal window for its figures.
+type Indication struct {
+	store.Indication
+	Calls  []store.Call `json:"calls"`
+	Window *Window      `json:"-"`
+}
+
+// Reportable reports whether the indication is in the report's table and
+// figures: every indication whose current call is not rejected.
+func (d *Indication) Reportable() bool { return d.Status != store.CallRejected }
+
+// Window is the signal of one channel around an indication: X and Y in
+// volts (impedance-plane components after the set-up in use), sample
+// FirstSample onwards. The measurement window is samples
+// [Indication.StartSample, Indication.EndSample).
+type Window struct {
+	Channel     string
+	FirstSample int
+	X, Y        []float64
+}
+
+// Options control FromStore.
+type Options struct {
+	// Now gives the report's generation time; time.Now when nil.
+	Now func() time.Time
+	// Curve extracts the curve points from a calibration body. When nil,
+	// the body's "points" array of {"phase_rad", "depth_pct"} objects is
+	// used if present.
+	Curve func(c store.Calibration) ([]CurvePoint, error)
+	// Window loads the signal around a reportable indication (from the
+	// scan file named by its scan, processed as recorded). When nil, or
+	// when it returns a nil window, the report says the signal was not
+	// supplied instead of drawing figures.
+	Window func(ctx context.Context, d store.Indication) (*Window, error)
+}
+
+// defaultCurve reads {"points":[{"phase_rad":…,"depth_pct":…},…]}.
+func defaultCurve(c store.Calibration) ([]CurvePoint, error) {
+	var body struct {
+		Points []CurvePoint `json:"points"`
+	}
+	if err := json.Unmarshal(c.Body, &body); err != nil {
+		// A body that is not an object has no points; that is not an error.
+		var ute *json.UnmarshalTypeError
+		if errors.As(err, &ute) {
+			return nil, nil
+		}
+		return nil, err
+	}
+	return body.Points, nil
+}
+
+// FromStore builds the report input from a record. It verifies the
+// record first and refuses (with an error wrapping store.ErrTampered) a
+// record that does not verify. The report is released (Draft false, the
+// release's report ID) when the newest event is a QA release; otherwise it
+// is a draft with the ID "<inspection id>-D-<first 8 hex digits of the
+// chain head>".
+func FromStore(ctx context.Context, s *store.Store, opt Options) (*Inspection, error) {
+	now := opt.Now
+	if now == nil {
+		now = time.Now
+	}
+	curve := opt.Curve
+	if curve == nil {
+		curve = defaultCurve
+	}
+	res, err := s.Verify(ctx)
+	if err != nil {
+		return nil, err
+	}
+	if err := res.Err(); err != nil {
+		return nil, err
+	}
+	in := &Inspection{Generated: now().UTC(), Chain: res}
+	if in.Record, err = s.Inspection(ctx); err != nil {
+		return nil, err
+	}
+	if in.People, err = s.People(ctx); err != nil {
+		return nil, err
+	}
+	if in.Components, err = s.Components(ctx); err != nil {
+		return nil, err
+	}
+	if in.Scans, err = s.Scans(ctx); err != nil {
+		return nil, err
+	}
+	if in.Chains, err = s.Chains(ctx); err != nil {
+		return nil, err
+	}
+	if in.Standards, err = s.Standards(ctx); err != nil {
+		return nil, err
+	}
+	cals, err := s.Calibrations(ctx)
+	if err != nil {
+		return nil, err
+	}
+	for _, c := range cals {
+		pts, err := curve(c)
+		if err != nil {
+			return nil, fmt.Errorf("calibration %s v%d: curve points: %w", c.ID, c.Version, err)
+		}
+		in.Calibrations = append(in.Calibrations, Calibration{Calibration: c, Points: pts})
+	}
+	if in.Groups, err = s.GroupChecks(ctx); err != nil {
+		return nil, err
+	}
+	inds, err := s.Indications(ctx, "")
+	if err != nil {
+		return nil, err
+	}
+	for _, d := range inds {
+		calls, err := s.Calls(ctx, d.ID)
+		if err != nil {
+			return nil, err
+		}
+		ri := Indication{Indication: d, Calls: calls}
+		if opt.Window != nil && ri.Reportable() {
+			if ri.Window, err = opt.Window(ctx, d); err != nil {
+				return nil, fmt.Errorf("indication %s: signal window: %w", d.ID, err)
+			}
+		}
+		in.Indications = append(in.Indications, ri)
+	}
+	if in.Releases, err = s.Releases(ctx); err != nil {
+		return nil, err
+	}
+	if in.Events, err = s.Events(ctx); err != nil {
+		return nil, err
+	}
+	in.Draft = true
+	in.ReportID = fmt.Sprintf("%s-D-%s", in.Record.ID, res.HeadHash[:8])
+	if n := len(in.Releases); n > 0 && in.Releases[n-1].HeadSeq == res.HeadSeq-1 {
+		in.Draft, in.ReportID = false, in.Releases[n-1].ReportID
+	}
+	return in, nil
+}
