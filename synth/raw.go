@@ -93,6 +93,21 @@ func (g *Generator) Raw(i int) (*acquire.RawRecord, []Truth, error) {
 	if i < 0 || i >= g.cfg.Raw {
 		return nil, nil, fmt.Errorf("raw recording %d: expected 0 to %d", i, g.cfg.Raw-1)
 	}
+	rec, truth, _ := g.raw(i)
+	return rec, truth, nil
+}
+
+// rawPhasors is the coil signal behind a raw recording: the phasor of
+// each tone on a fine axial grid, which is what demodulation of the
+// recording against its reference should give.
+type rawPhasors struct {
+	fine  *pull
+	ch    []acquire.Channel // the recorded coil's channels, one per frequency, imbalance included
+	z0    float64
+	speed float64
+}
+
+func (g *Generator) raw(i int) (*acquire.RawRecord, []Truth, *rawPhasors) {
 	p := g.rawPlans()[i]
 	r := rand.New(rand.NewPCG(g.cfg.Seed^saltRaw, uint64(i)))
 	fs := g.cfg.RawSampleRateHz
@@ -188,5 +203,14 @@ func (g *Generator) Raw(i int) (*acquire.RawRecord, []Truth, error) {
 			rec.PositionM[k] = math.Round((z0+speed*t)*1e7) / 1e7
 		}
 	}
-	return rec, truth, nil
+	ph := &rawPhasors{fine: fine, z0: z0, speed: speed}
+	for fi := range nf {
+		c := chans[2*fi+ch]
+		c.Samples = append([]complex128(nil), c.Samples...)
+		for k := range c.Samples {
+			c.Samples[k] += imb[fi]
+		}
+		ph.ch = append(ph.ch, c)
+	}
+	return rec, truth, ph
 }

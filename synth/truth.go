@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"os"
 	"strconv"
 	"strings"
 
@@ -47,17 +48,22 @@ func WriteTruth(w io.Writer, t []Truth) error {
 
 // TruthError is a problem at one place in a truth file.
 type TruthError struct {
+	File   string // file name, or empty for a stream
 	Line   int    // 1-based line number
-	Column int    // 1-based column number, 0 when the whole row is at fault
+	Column int    // 1-based index of the field in its row, 0 when the whole row is at fault
 	Field  string // column name, when known
 	Err    error
 }
 
 func (e *TruthError) Error() string {
-	if e.Column == 0 {
-		return fmt.Sprintf("truth line %d: %v", e.Line, e.Err)
+	where := "truth"
+	if e.File != "" {
+		where = e.File + ":"
 	}
-	return fmt.Sprintf("truth line %d column %d (%s): %v", e.Line, e.Column, e.Field, e.Err)
+	if e.Column == 0 {
+		return fmt.Sprintf("%s line %d: %v", where, e.Line, e.Err)
+	}
+	return fmt.Sprintf("%s line %d column %d (%s): %v", where, e.Line, e.Column, e.Field, e.Err)
 }
 
 func (e *TruthError) Unwrap() error { return e.Err }
@@ -81,7 +87,7 @@ func ReadTruth(r io.Reader) ([]Truth, error) {
 		if err != nil {
 			var pe *csv.ParseError
 			if errors.As(err, &pe) {
-				return nil, &TruthError{Line: pe.Line, Column: pe.Column, Field: "csv", Err: pe.Err}
+				return nil, &TruthError{Line: pe.Line, Err: fmt.Errorf("byte %d: %w", pe.Column, pe.Err)}
 			}
 			return nil, err
 		}
@@ -104,6 +110,21 @@ func ReadTruth(r io.Reader) ([]Truth, error) {
 	}
 }
 
+// ReadTruthFile reads the truth file at path; errors name the file.
+func ReadTruthFile(path string) ([]Truth, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	t, err := ReadTruth(f)
+	var te *TruthError
+	if errors.As(err, &te) {
+		te.File = path
+	}
+	return t, err
+}
+
 func checkHeader(rec []string) error {
 	if len(rec) > 0 {
 		rec[0] = strings.TrimPrefix(rec[0], "\ufeff")
@@ -121,8 +142,8 @@ func checkHeader(rec []string) error {
 
 func parseTruth(rec []string, cr *csv.Reader) (Truth, error) {
 	bad := func(col int, format string, a ...any) error {
-		line, c := cr.FieldPos(col)
-		return &TruthError{Line: line, Column: c, Field: truthHeader[col], Err: fmt.Errorf(format, a...)}
+		line, _ := cr.FieldPos(col)
+		return &TruthError{Line: line, Column: col + 1, Field: truthHeader[col], Err: fmt.Errorf(format, a...)}
 	}
 	num := func(col int, what string) (float64, error) {
 		s := strings.TrimSpace(rec[col])

@@ -67,7 +67,13 @@ const (
 	probDeposit = 0.06
 	probBurnish = 0.05
 	probCluster = 0.012 // a tube with several pits and a wear scar
-	crackWidthM = 1.2e-3
+	// Effective circumferential widths of axial cracks: a bobbin coil's
+	// circumferential eddy currents are interrupted over the crack's depth,
+	// so a tight crack reads like a narrow volumetric flaw. Demo choices
+	// giving small ID-crack signals (about 1–3 V at the prime) and OD-crack
+	// signals comparable with the 40 % hole.
+	idCrackWidthM = 0.5e-3
+	odCrackWidthM = 1.2e-3
 )
 
 // interval is an occupied stretch of tube.
@@ -185,7 +191,7 @@ func (g *Generator) plan(i int) tubePlan {
 		z0 := zt + uni(-0.002, 0.002)
 		l := uni(3e-3, 8e-3)
 		d := math.Round(uni(30, 70))
-		add(feature{kind: wallLoss, z1: z0 - l/2, z2: z0 + l/2, x1: 0, x2: t * d / 100, widthM: crackWidthM},
+		add(feature{kind: wallLoss, z1: z0 - l/2, z2: z0 + l/2, x1: 0, x2: t * d / 100, widthM: idCrackWidthM},
 			Truth{Kind: KindIDCrack, AxialPositionM: z0, LengthM: l, DepthPct: d, Origin: calibrate.ID, Support: -1})
 	}
 	if chance(probODCrack) {
@@ -197,7 +203,7 @@ func (g *Generator) plan(i int) tubePlan {
 		l := uni(4e-3, 10e-3)
 		z0 := c.SupportsM[s] + side*(half+uni(0.001, 0.004)+l/2)
 		d := math.Round(uni(40, 80))
-		add(feature{kind: wallLoss, z1: z0 - l/2, z2: z0 + l/2, x1: t * (1 - d/100), x2: t, widthM: crackWidthM},
+		add(feature{kind: wallLoss, z1: z0 - l/2, z2: z0 + l/2, x1: t * (1 - d/100), x2: t, widthM: odCrackWidthM},
 			Truth{Kind: KindODCrack, AxialPositionM: z0, LengthM: l, DepthPct: d, Origin: calibrate.OD, Support: s})
 	}
 	if chance(probDent) {
