@@ -6,4 +6,3 @@ import "whorl/impedance"
 func (c PlanarCase) Planar() impedance.Planar {
 	return impedance.Planar{Coil: c.Coil, LiftoffM: c.LiftoffM, Layers: c.Layers}
 }
-
