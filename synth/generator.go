@@ -176,6 +176,14 @@ func (g *Generator) layoutTubes() {
 		return pts[i].c < pts[j].c
 	})
 	pts = pts[:n]
+	minR, minC := side, side
+	for _, p := range pts {
+		minR, minC = min(minR, p.r), min(minC, p.c)
+	}
+	for i := range pts { // number rows and columns from 1
+		pts[i].r -= minR - 1
+		pts[i].c -= minC - 1
+	}
 	sort.Slice(pts, func(i, j int) bool {
 		if pts[i].r != pts[j].r {
 			return pts[i].r < pts[j].r

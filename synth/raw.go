@@ -116,10 +116,12 @@ func (g *Generator) raw(i int) (*acquire.RawRecord, []Truth, *rawPhasors) {
 	speed, length := rawSpeedMPS, rawSectionM
 	slot := 0.0
 	if p.mux {
-		speed = rawMuxSpeed
 		slot = math.Max(rawMinSlotS, rawMuxCycles/freqs[nf-1])
 		slot = math.Round(slot*fs) / fs // a whole number of samples
-		length = 0.05
+		// At most 0.5 mm of travel per cycle of all tones, and at most
+		// 100,000 samples.
+		speed = math.Min(rawMuxSpeed, 0.5e-3/(float64(nf)*slot))
+		length = math.Min(0.05, 1e5/fs*speed)
 	}
 	z0 := p.centreM - length/2
 	// Render the section on a fine axial grid with the scan model, then

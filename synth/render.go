@@ -181,17 +181,32 @@ func addNoise(x []complex128, r *rand.Rand, stepM, whiteV, pinkV float64, pinkL 
 	for k := range x {
 		x[k] += complex(ws*r.NormFloat64(), ws*r.NormFloat64())
 	}
+	// ar adds a first-order autoregressive process of correlation length
+	// lambdaM. Slow processes are drawn every m samples (m ≤ λ/(8·step))
+	// and interpolated linearly, which changes them negligibly and saves
+	// most of the random draws.
 	ar := func(lambdaM, rms float64) {
 		if rms == 0 {
 			return
 		}
-		a := math.Exp(-stepM / lambdaM)
+		m := max(1, min(32, int(lambdaM/stepM/8)))
+		a := math.Exp(-float64(m) * stepM / lambdaM)
 		b := math.Sqrt(1-a*a) * rms / math.Sqrt2
-		re, im := rms/math.Sqrt2*r.NormFloat64(), rms/math.Sqrt2*r.NormFloat64()
-		for k := range x {
-			re = a*re + b*r.NormFloat64()
-			im = a*im + b*r.NormFloat64()
-			x[k] += complex(re, im)
+		prev := complex(rms/math.Sqrt2*r.NormFloat64(), rms/math.Sqrt2*r.NormFloat64())
+		if m == 1 {
+			for k := range x {
+				prev = complex(a*real(prev)+b*r.NormFloat64(), a*imag(prev)+b*r.NormFloat64())
+				x[k] += prev
+			}
+			return
+		}
+		for k0 := 0; k0 < n; k0 += m {
+			next := complex(a*real(prev)+b*r.NormFloat64(), a*imag(prev)+b*r.NormFloat64())
+			for k := k0; k < min(n, k0+m); k++ {
+				fr := float64(k-k0) / float64(m)
+				x[k] += prev*complex(1-fr, 0) + next*complex(fr, 0)
+			}
+			prev = next
 		}
 	}
 	for _, l := range pinkL {
