@@ -7,6 +7,7 @@ import (
 	"math"
 	"math/cmplx"
 	"strconv"
+	"sync"
 
 	"gonum.org/v1/gonum/dsp/window"
 
@@ -34,6 +35,9 @@ type DemodOptions struct {
 	// CoilLengthM is the effective coil length used for the flaw-band warning
 	// (0: no check).
 	CoilLengthM float64
+	// Workers is the number of frequencies demodulated concurrently
+	// (simultaneous tones; 0 or 1: one at a time).
+	Workers int
 }
 
 // ToneReport describes the demodulation of one excitation frequency.
@@ -113,7 +117,11 @@ func FlawBandWarning(cutoffHz, speedMPS, coilLengthM float64) string {
 	return ""
 }
 
-func validateRecord(rec *acquire.RawRecord) error {
+// validateRecord checks the record; with checkVoltage false the voltage
+// samples are left to the caller (the simultaneous-tone lock-in checks them
+// for non-finite values during its first pass, which saves a pass over the
+// largest array).
+func validateRecord(rec *acquire.RawRecord, checkVoltage bool) error {
 	fs := rec.SampleRateHz
 	if !(fs > 0) || math.IsInf(fs, 0) {
 		return fmt.Errorf("%w: sample rate %v Hz: expected a positive finite rate", ErrRecord, fs)
@@ -144,14 +152,50 @@ func validateRecord(rec *acquire.RawRecord) error {
 	if rec.PositionM != nil && len(rec.PositionM) != n {
 		return fmt.Errorf("%w: %d positions for %d voltage samples", ErrRecord, len(rec.PositionM), n)
 	}
-	for name, s := range map[string][]float64{"voltage": rec.VoltageV, "reference": rec.ReferenceV, "position": rec.PositionM} {
-		for i, v := range s {
-			if math.IsNaN(v) || math.IsInf(v, 0) {
-				return fmt.Errorf("%w: %s sample %d is %v: expected a finite value", ErrRecord, name, i, v)
-			}
+	for _, c := range []struct {
+		name string
+		s    []float64
+	}{{"voltage", rec.VoltageV}, {"reference", rec.ReferenceV}, {"position", rec.PositionM}} {
+		if c.name == "voltage" && !checkVoltage {
+			continue
+		}
+		if i := firstNonFinite(c.s); i >= 0 {
+			return fmt.Errorf("%w: %s sample %d is %v: expected a finite value", ErrRecord, c.name, i, c.s[i])
 		}
 	}
 	return nil
+}
+
+// firstNonFinite returns the index of the first NaN or infinite value of
+// s, or −1. It sums x−x (zero for finite x, NaN otherwise) in blocks so the
+// common all-finite case runs at memory speed.
+func firstNonFinite(s []float64) int {
+	const blk = 1024
+	for b := 0; b < len(s); b += blk {
+		e := min(b+blk, len(s))
+		// Four independent sums keep the adds from waiting on each other.
+		var a0, a1, a2, a3 float64
+		blk := s[b:e]
+		i := 0
+		for ; i+4 <= len(blk); i += 4 {
+			q := blk[i : i+4 : i+4]
+			a0 += q[0] - q[0]
+			a1 += q[1] - q[1]
+			a2 += q[2] - q[2]
+			a3 += q[3] - q[3]
+		}
+		for ; i < len(blk); i++ {
+			a0 += blk[i] - blk[i]
+		}
+		if acc := a0 + a1 + a2 + a3; acc != 0 || acc != acc {
+			for i := b; i < e; i++ {
+				if math.IsNaN(s[i]) || math.IsInf(s[i], 0) {
+					return i
+				}
+			}
+		}
+	}
+	return -1
 }
 
 // Demodulate turns a raw coil-voltage record into a demodulated scan, one
@@ -195,7 +239,7 @@ func Demodulate(rec *acquire.RawRecord, opt DemodOptions) (*acquire.Scan, *Demod
 	if rec == nil {
 		panic("dsp: nil record")
 	}
-	if err := validateRecord(rec); err != nil {
+	if err := validateRecord(rec, rec.SlotS > 0); err != nil {
 		return nil, nil, err
 	}
 	if opt.Order == 0 {
@@ -293,26 +337,70 @@ func demodSimultaneous(rec *acquire.RawRecord, opt DemodOptions) (*acquire.Scan,
 		}
 	}
 	dm.trim = trim
-	for _, f := range rec.ExcitationHz {
+	type result struct {
+		tr  ToneReport
+		z   []complex128
+		err error
+	}
+	res := make([]result, len(rec.ExcitationHz))
+	tone := func(dm *demodulator, k int) {
+		f := rec.ExcitationHz[k]
 		z, err := dm.run(nil, rec.VoltageV, f, fs)
 		if err != nil {
-			return nil, nil, err
+			res[k].err = err
+			return
 		}
 		tr := ToneReport{FreqHz: f, Channel: ChannelLabel(rec.Coil, f)}
 		if rec.ReferenceV != nil {
 			r, err := dm.run(nil, rec.ReferenceV, f, fs)
 			if err != nil {
-				return nil, nil, err
+				res[k].err = err
+				return
 			}
 			if err := referTo(z, r, f, &tr); err != nil {
-				return nil, nil, err
+				res[k].err = err
+				return
 			}
 		} else {
 			tr.EstimatedPhaseRad = cmplx.Phase(mean(z))
 		}
 		tr.MeanV = mean(z)
-		rep.Tones = append(rep.Tones, tr)
-		scan.Channels = append(scan.Channels, acquire.Channel{Name: tr.Channel, FreqHz: f, Mode: rec.Mode, Samples: z})
+		res[k] = result{tr: tr, z: z}
+	}
+	workers := min(max(opt.Workers, 1), len(rec.ExcitationHz))
+	if workers == 1 {
+		for k := range rec.ExcitationHz {
+			tone(dm, k)
+		}
+	} else {
+		next := make(chan int)
+		var wg sync.WaitGroup
+		for w := 0; w < workers; w++ {
+			wdm := dm
+			if w > 0 {
+				wdm = newDemodulator(d1, d2, sos)
+				wdm.trim = trim
+			}
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				for k := range next {
+					tone(wdm, k)
+				}
+			}()
+		}
+		for k := range rec.ExcitationHz {
+			next <- k
+		}
+		close(next)
+		wg.Wait()
+	}
+	for k, r := range res {
+		if r.err != nil {
+			return nil, nil, r.err
+		}
+		rep.Tones = append(rep.Tones, r.tr)
+		scan.Channels = append(scan.Channels, acquire.Channel{Name: r.tr.Channel, FreqHz: rec.ExcitationHz[k], Mode: rec.Mode, Samples: r.z})
 	}
 	annotate(scan, rep)
 	return scan, rep, scan.Validate()
@@ -410,6 +498,8 @@ type demodulator struct {
 	buf  []complex128
 	// trim is the number of output samples dropped at each end.
 	trim int
+	// ctaps holds the complex taps of the current tone, one row per phase.
+	ctaps [][2 * splineOrder]float64
 }
 
 func newDemodulator(d1, d2 int, sos SOS) *demodulator {
@@ -452,7 +542,9 @@ func (dm *demodulator) run(dst []complex128, v []float64, freqHz, fsHz float64) 
 		dm.buf = make([]complex128, m1)
 	}
 	u := dm.buf[:m1]
-	dm.stage1(u, v, freqHz, fsHz)
+	if bad := dm.stage1(u, v, freqHz, fsHz); bad >= 0 {
+		return nil, fmt.Errorf("%w: voltage sample %d is %v: expected a finite value", ErrRecord, bad, v[bad])
+	}
 	if err := dm.ff.Run(u, u); err != nil {
 		return nil, err
 	}
@@ -467,52 +559,90 @@ func (dm *demodulator) run(dst []complex128, v []float64, freqHz, fsHz float64) 
 }
 
 // stage1 mixes v to baseband and applies the B-spline decimator, writing
-// len(u) intermediate samples. Each input sample is mixed once and added to
-// the splineOrder overlapping outputs it belongs to (polyphase form).
-func (dm *demodulator) stage1(u []complex128, v []float64, freqHz, fsHz float64) {
+// len(u) intermediate samples, in polyphase form: each input sample is read
+// once and added to the splineOrder overlapping outputs it belongs to.
+//
+// The carrier is split as e^{−jω(b·d1+p)} = e^{−jωb·d1}·e^{−jωp}: the
+// within-block factor is folded into complex taps T_k[p] = t_k[p]·e^{−jωp}
+// (computed once per tone), so the inner loop is four complex-by-real
+// multiply-adds per sample; each block's partial sums are then turned by
+// the exact block phase e^{−jωb·d1} (math.Sincos, no recurrence, so no
+// phase error accumulates however long the record).
+//
+// It returns the index of the first non-finite input sample, or −1: a NaN
+// or infinity makes the block's first sum non-finite, because the first
+// tap column is positive at every phase.
+func (dm *demodulator) stage1(u []complex128, v []float64, freqHz, fsHz float64) int {
 	d1 := dm.d1
 	m1 := len(u)
 	w := -2 * math.Pi * freqHz / fsHz
-	// The carrier e^{−jωn/fs} by recurrence within a block, re-seeded
-	// exactly by Sincos at the start of every block of d1 samples, which
-	// keeps the phase error near machine precision on records of any length.
-	stepS, stepC := math.Sincos(w)
-	var a0r, a0i, a1r, a1i, a2r, a2i, a3r, a3i float64 // accumulators of outputs b, b−1, b−2, b−3
+	if cap(dm.ctaps) < d1 {
+		dm.ctaps = make([][2 * splineOrder]float64, d1)
+	}
+	// Per phase p: re0 im0 re1 im1 re2 im2 re3 im3.
+	ct := dm.ctaps[:d1]
+	for p := range ct {
+		sn, cs := math.Sincos(w * float64(p))
+		for k := 0; k < splineOrder; k++ {
+			t := dm.taps[p+k*d1]
+			ct[p][2*k] = t * cs
+			ct[p][2*k+1] = t * sn
+		}
+	}
+	var o1, o2, o3 complex128 // partial outputs b−1, b−2, b−3 carried between blocks
 	nBlocks := m1 + splineOrder - 1
-	taps := dm.taps
 	for b := 0; b < nBlocks; b++ {
 		base := b * d1
-		sn, cs := math.Sincos(w * float64(base))
-		cr, ci := cs, sn
-		var blk []float64
+		var sums [2 * splineOrder]float64
 		if base < len(v) {
-			blk = v[base:min(base+d1, len(v))]
+			blk := v[base:min(base+d1, len(v))]
+			sums = blockSums(ct[:len(blk)], blk)
+			if t := sums[0] + sums[1]; t-t != 0 {
+				if i := firstNonFinite(blk); i >= 0 {
+					return base + i
+				}
+			}
 		}
-		t0 := taps[0:d1]
-		t1 := taps[d1 : 2*d1]
-		t2 := taps[2*d1 : 3*d1]
-		t3 := taps[3*d1 : 4*d1]
-		for p, x := range blk {
-			mr, mi := x*cr, x*ci
-			a0r += t0[p] * mr
-			a0i += t0[p] * mi
-			a1r += t1[p] * mr
-			a1i += t1[p] * mi
-			a2r += t2[p] * mr
-			a2i += t2[p] * mi
-			a3r += t3[p] * mr
-			a3i += t3[p] * mi
-			cr, ci = cr*stepC-ci*stepS, cr*stepS+ci*stepC
-		}
-		// Output b−3 is complete after block b.
+		s0r, s0i, s1r, s1i, s2r, s2i, s3r, s3i := sums[0], sums[1], sums[2], sums[3], sums[4], sums[5], sums[6], sums[7]
+		sn, cs := math.Sincos(w * float64(base))
+		rot := complex(cs, sn)
+		// Block b contributes tap segment k to output b−k.
 		if m := b - (splineOrder - 1); m >= 0 && m < m1 {
-			u[m] = complex(a3r, a3i)
+			u[m] = o3 + rot*complex(s3r, s3i)
 		}
-		a3r, a3i = a2r, a2i
-		a2r, a2i = a1r, a1i
-		a1r, a1i = a0r, a0i
-		a0r, a0i = 0, 0
+		o3 = o2 + rot*complex(s2r, s2i)
+		o2 = o1 + rot*complex(s1r, s1i)
+		o1 = rot * complex(s0r, s0i)
 	}
+	return -1
+}
+
+// blockSums returns Σ_p c[p][i]·x[p] for the eight tap columns i. It is a
+// separate function so that its sums, the sample and the loop index have
+// the registers to themselves (inlined into stage1, the compiler spilled
+// them to the stack on every sample). len(c) must equal len(x).
+//
+//go:noinline
+func blockSums(c [][2 * splineOrder]float64, x []float64) [2 * splineOrder]float64 {
+	var s0r, s0i, s1r, s1i, s2r, s2i, s3r, s3i float64
+	c = c[:len(x)]
+	// Two passes of four sums: eight sums and their products at once
+	// exceed the registers Go's compiler allocates, and spill.
+	for p, v := range x {
+		q := &c[p]
+		s0r += q[0] * v
+		s0i += q[1] * v
+		s1r += q[2] * v
+		s1i += q[3] * v
+	}
+	for p, v := range x {
+		q := &c[p]
+		s2r += q[4] * v
+		s2i += q[5] * v
+		s3r += q[6] * v
+		s3i += q[7] * v
+	}
+	return [2 * splineOrder]float64{s0r, s0i, s1r, s1i, s2r, s2i, s3r, s3i}
 }
 
 // demodMultiplexed handles SlotS > 0.

@@ -1,0 +1,93 @@
+package dsp
+
+import (
+	"testing"
+
+	"whorl/acquire"
+	"whorl/dsp/dsptest"
+)
+
+const benchSamples = 10_000_000
+
+// benchRecord is a 10 s record at 1 MHz with two simultaneous tones
+// (400 kHz and 100 kHz), the work load of bench/dsp_pipeline.py.
+func benchRecord() *acquire.RawRecord {
+	tones := []dsptest.Tone{{FreqHz: 400e3, AmplitudeV: 1, PhaseRad: 0.3}, {FreqHz: 100e3, AmplitudeV: 0.5, PhaseRad: -1}}
+	return &acquire.RawRecord{Coil: "diff", Mode: acquire.Differential, SampleRateHz: 1e6,
+		ExcitationHz: []float64{400e3, 100e3}, VoltageV: dsptest.MultiTone(benchSamples, 1e6, tones)}
+}
+
+// BenchmarkDemodulate10M: lock-in of two tones (mixing, B-spline
+// decimation by 100, zero-phase order-4 Butterworth at 10 kHz, decimation
+// to 2 kHz) over 10 million raw samples.
+func BenchmarkDemodulate10M(b *testing.B) {
+	rec := benchRecord()
+	for _, workers := range []int{1, 2} {
+		b.Run(map[int]string{1: "workers1", 2: "workers2"}[workers], func(b *testing.B) {
+			b.ReportAllocs()
+			b.SetBytes(8 * benchSamples)
+			for b.Loop() {
+				if _, _, err := Demodulate(rec, DemodOptions{OutputRateHz: 2000, Workers: workers}); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(benchSamples)*float64(b.N)/b.Elapsed().Seconds()/1e6, "Msamples/s")
+		})
+	}
+}
+
+// BenchmarkMemcopy10M copies the same 10 million float64 samples: the
+// memory-bandwidth limit of any pass over the record.
+func BenchmarkMemcopy10M(b *testing.B) {
+	src := benchRecord().VoltageV
+	dst := make([]float64, len(src))
+	b.ReportAllocs()
+	b.SetBytes(8 * benchSamples)
+	b.ResetTimer()
+	for b.Loop() {
+		copy(dst, src)
+	}
+	b.ReportMetric(float64(benchSamples)*float64(b.N)/b.Elapsed().Seconds()/1e6, "Msamples/s")
+}
+
+// BenchmarkFiltFilt1M: zero-phase order-4 Butterworth over one million
+// complex samples.
+func BenchmarkFiltFilt1M(b *testing.B) {
+	sos, _ := ButterworthLowpass(4, 100, 10000)
+	x := make([]complex128, 1_000_000)
+	for i := range x {
+		x[i] = complex(float64(i%97), float64(i%13))
+	}
+	y := make([]complex128, len(x))
+	f := NewFiltFilter(sos)
+	b.ReportAllocs()
+	for b.Loop() {
+		if err := f.Run(y, x); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkWelch64k: Welch PSD of 65536 samples, segments of 256 and of 250
+// (a non-power of two).
+func BenchmarkWelch64k(b *testing.B) {
+	x := welchInputBench(1 << 16)
+	for _, seg := range []int{256, 250} {
+		b.Run(map[int]string{256: "seg256", 250: "seg250"}[seg], func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				if _, _, err := WelchPSD(x, 1000, WelchOptions{SegmentLen: seg}); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
+}
+
+func welchInputBench(n int) []float64 {
+	x := make([]float64, n)
+	for i := range x {
+		x[i] = float64((i*7919)%101-50) / 50
+	}
+	return x
+}
