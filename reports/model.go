@@ -57,13 +57,15 @@ type Indication struct {
 func (d *Indication) Reportable() bool { return d.Status != store.CallRejected }
 
 // Window is the signal of one channel around an indication: X and Y in
-// volts (impedance-plane components after the set-up in use), sample
-// FirstSample onwards. The measurement window is samples
-// [Indication.StartSample, Indication.EndSample).
+// volts (the impedance-plane components), sample FirstSample onwards. The
+// measurement window is samples [Indication.StartSample,
+// Indication.EndSample). Note, when set, says in the report where the
+// signal comes from (for example "channel as stored in the scan file").
 type Window struct {
 	Channel     string
 	FirstSample int
 	X, Y        []float64
+	Note        string
 }
 
 // Options control FromStore.

@@ -593,6 +593,10 @@ func (p *pdfw) figureSection() {
 			p.f.Ln(2)
 			continue
 		}
+		if d.Window.Note != "" {
+			p.font("", 7.5)
+			p.f.MultiCell(bodyW, 3.4, pdfText(clipText("Signal: "+d.Window.Note, 300), false), "", "L", false)
+		}
 		y := p.f.GetY() + 1
 		for j, fig := range []func(*Indication, float64, float64) ([]byte, error){lissajousFigure, stripFigure} {
 			x := marginL + float64(j)*(fw+4)

@@ -1,0 +1,241 @@
+package main
+
+import (
+	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+
+	"whorl/acquire"
+	"whorl/reports"
+	"whorl/store"
+)
+
+func init() {
+	register(&command{
+		name:     "report",
+		synopsis: "write the inspection report (PDF) and the record exports (CSV, JSON)",
+		usage:    "whorl report --db DB [--pdf OUT.pdf] [--csv OUT.csv] [--json OUT.json] [--record-csv OUT.csv] [--indications-json OUT.json] [--signals] [--release NOTE]",
+		help: `Builds the report of the inspection record DB. The record is verified
+first; a record that does not verify gives no report (exit 4). The report
+is "released" when the newest event of the record is a QA release, and a
+draft otherwise; its ID is on every page.
+
+Outputs (at least one):
+  --pdf               the inspection report
+  --csv               the indications, one row each (docs/report.md)
+  --json              the full record as one JSON document
+  --record-csv        the full record as CSV: its event log
+  --indications-json  the indications with their call history as JSON
+Each file is written whole or not at all.
+
+--signals draws the impedance-plane and strip-chart figures of each
+reportable indication from its scan file (path relative to DB's directory),
+after checking the file against the SHA-256 in the record; the figures show
+the channel as stored in the scan file.
+
+--release NOTE records the QA release of the record as it stands (the
+person at this workstation must be registered with role qa) and then
+writes the released report.
+
+Environment: WHORL_USER and WHORL_ROLE declare who is at the workstation
+(needed for --release).
+
+Examples:
+  whorl report --db insp.whorl --pdf report.pdf --csv indications.csv --json record.json
+  WHORL_USER="Uma Quist" WHORL_ROLE=qa whorl report --db insp.whorl --release "final report" --pdf report.pdf
+  whorl report --db insp.whorl --signals --pdf report.pdf`,
+		setFlags: func(fs *flag.FlagSet) {
+			fs.String("db", "", "inspection record `file` (required)")
+			fs.String("pdf", "", "write the PDF report to `file`")
+			fs.String("csv", "", "write the indications CSV to `file`")
+			fs.String("json", "", "write the full record JSON to `file`")
+			fs.String("record-csv", "", "write the full record (event log) CSV to `file`")
+			fs.String("indications-json", "", "write the indications JSON to `file`")
+			fs.Bool("signals", false, "draw indication figures from the scan files")
+			fs.String("release", "", "record the QA release with this `note` before writing")
+		},
+		run: runReport,
+	})
+}
+
+// reportOutput is one file written by 'whorl report'.
+type reportOutput struct {
+	Kind   string `json:"kind"`
+	Path   string `json:"path"`
+	Bytes  int64  `json:"bytes"`
+	SHA256 string `json:"sha256"`
+}
+
+func runReport(ctx context.Context, e *env, fs *flag.FlagSet, args []string) error {
+	if len(args) > 0 {
+		return usagef("unexpected argument %q", args[0])
+	}
+	db := flagString(fs, "db")
+	if db == "" {
+		return usagef("--db is required")
+	}
+	outs := []struct {
+		flag, kind string
+		write      func(io.Writer, *reports.Inspection) error
+	}{
+		{"pdf", "pdf", reports.WritePDF},
+		{"csv", "indications-csv", reports.WriteIndicationsCSV},
+		{"json", "record-json", reports.WriteRecordJSON},
+		{"record-csv", "record-csv", reports.WriteRecordCSV},
+		{"indications-json", "indications-json", reports.WriteIndicationsJSON},
+	}
+	any := false
+	for _, o := range outs {
+		any = any || flagString(fs, o.flag) != ""
+	}
+	if !any {
+		return usagef("give at least one output: --pdf, --csv, --json, --record-csv or --indications-json")
+	}
+	s, err := openRecord(ctx, e, db)
+	if err != nil {
+		return err
+	}
+	defer s.Close()
+	if flagSet(fs, "release") {
+		actor, err := declaredActor(e)
+		if err != nil {
+			return err
+		}
+		rel, err := s.As(actor).ReleaseReport(ctx, flagString(fs, "release"))
+		if errors.Is(err, store.ErrNotPermitted) {
+			return refused(err)
+		}
+		if err != nil {
+			return dataError(err)
+		}
+		fmt.Fprintf(e.stderr, "released report %s\n", rel.ReportID)
+	}
+	opt := reports.Options{Now: e.now}
+	if flagBool(fs, "signals") {
+		opt.Window = scanWindows(filepath.Dir(db), s)
+	}
+	in, err := reports.FromStore(ctx, s, opt)
+	if errors.Is(err, store.ErrTampered) {
+		return checkFailed(err)
+	}
+	if err != nil {
+		return dataError(err)
+	}
+	for _, o := range outs {
+		path := flagString(fs, o.flag)
+		if path == "" {
+			continue
+		}
+		h := sha256.New()
+		var n int64
+		err := writeFileAtomic(path, func(w io.Writer) error {
+			cw := &countWriter{w: io.MultiWriter(w, h)}
+			err := o.write(cw, in)
+			n = cw.n
+			return err
+		})
+		if err != nil {
+			return fmt.Errorf("write %s: %w", path, err)
+		}
+		fmt.Fprintf(e.stdout, "%-17s %s (%d bytes, sha256 %s)\n", o.kind, path, n, hex.EncodeToString(h.Sum(nil)))
+	}
+	state := "draft"
+	if !in.Draft {
+		state = "released"
+	}
+	fmt.Fprintf(e.stdout, "report %s (%s): %d indications, %d reportable\n", in.ReportID, state, len(in.Indications), countReportable(in))
+	return nil
+}
+
+func countReportable(in *reports.Inspection) int {
+	n := 0
+	for i := range in.Indications {
+		if in.Indications[i].Reportable() {
+			n++
+		}
+	}
+	return n
+}
+
+type countWriter struct {
+	w io.Writer
+	n int64
+}
+
+func (c *countWriter) Write(p []byte) (int, error) {
+	n, err := c.w.Write(p)
+	c.n += int64(n)
+	return n, err
+}
+
+// scanWindows returns a window loader that reads each indication's scan
+// file (relative paths from dir), checks its size and SHA-256 against the
+// record, and cuts the indication's channel around the measurement window
+// (one window length either side). An indication whose channel is not in
+// the file (a mix, say) gets no window.
+func scanWindows(dir string, s *store.Store) func(context.Context, store.Indication) (*reports.Window, error) {
+	scans := map[string]*acquire.Scan{}
+	var recorded map[string]store.Scan
+	return func(ctx context.Context, d store.Indication) (*reports.Window, error) {
+		if recorded == nil {
+			list, err := s.Scans(ctx)
+			if err != nil {
+				return nil, err
+			}
+			recorded = map[string]store.Scan{}
+			for _, sc := range list {
+				recorded[sc.ID] = sc
+			}
+		}
+		rec, ok := recorded[d.ScanID]
+		if !ok {
+			return nil, fmt.Errorf("scan %q is not in the record", d.ScanID)
+		}
+		sc, ok := scans[rec.ID]
+		if !ok {
+			path := rec.Path
+			if !filepath.IsAbs(path) {
+				path = filepath.Join(dir, path)
+			}
+			size, sum, err := store.FileDigest(path)
+			if err != nil {
+				return nil, err
+			}
+			if size != rec.SizeBytes || sum != rec.SHA256 {
+				return nil, fmt.Errorf("scan file %s does not match the record (size %d, sha256 %s; recorded %d, %s)",
+					path, size, sum, rec.SizeBytes, rec.SHA256)
+			}
+			f, err := os.Open(path)
+			if err != nil {
+				return nil, err
+			}
+			sc, err = acquire.ReadScan(f, path)
+			f.Close()
+			if err != nil {
+				return nil, err
+			}
+			scans[rec.ID] = sc
+		}
+		ch := sc.Channel(d.Channel)
+		if ch == nil {
+			return nil, nil
+		}
+		n := d.EndSample - d.StartSample
+		lo, hi := max(0, d.StartSample-n), min(len(ch.Samples), d.EndSample+n)
+		if d.StartSample < 0 || d.EndSample > len(ch.Samples) {
+			return nil, fmt.Errorf("measurement window [%d, %d) is outside scan %q (%d samples)", d.StartSample, d.EndSample, rec.ID, len(ch.Samples))
+		}
+		w := &reports.Window{Channel: d.Channel, FirstSample: lo, X: make([]float64, hi-lo), Y: make([]float64, hi-lo),
+			Note: fmt.Sprintf("channel %s as stored in scan file %s", d.Channel, rec.Path)}
+		for i, z := range ch.Samples[lo:hi] {
+			w.X[i], w.Y[i] = real(z), imag(z)
+		}
+		return w, nil
+	}
+}
