@@ -86,7 +86,11 @@ func Write(ctx context.Context, dir string, cfg Config, progress func(done, tota
 	if err != nil {
 		return nil, err
 	}
-	for _, sub := range []string{"scans", "calibration", "raw"} {
+	subs := []string{"scans", "calibration"}
+	if cfg.Raw > 0 {
+		subs = append(subs, "raw")
+	}
+	for _, sub := range subs {
 		if err := os.MkdirAll(filepath.Join(dir, sub), 0o755); err != nil {
 			return nil, err
 		}
@@ -248,6 +252,11 @@ feed:
 func writeFile(path string, data []byte) error {
 	tmp, err := os.CreateTemp(filepath.Dir(path), ".tmp-"+filepath.Base(path)+"-*")
 	if err != nil {
+		return err
+	}
+	if err := tmp.Chmod(0o644); err != nil {
+		tmp.Close()
+		os.Remove(tmp.Name())
 		return err
 	}
 	if _, err := tmp.Write(data); err != nil {
