@@ -5,32 +5,8 @@ import (
 	"database/sql"
 	"testing"
 
-	_ "modernc.org/sqlite"
+	"whorl/store/storetest"
 )
-
-// dropTriggers removes the append-only triggers, as someone editing the
-// file with a SQLite tool could.
-func dropTriggers(t *testing.T, db *sql.DB) {
-	t.Helper()
-	rows, err := db.Query("SELECT name FROM sqlite_master WHERE type = 'trigger'")
-	if err != nil {
-		t.Fatal(err)
-	}
-	var names []string
-	for rows.Next() {
-		var n string
-		if err := rows.Scan(&n); err != nil {
-			t.Fatal(err)
-		}
-		names = append(names, n)
-	}
-	rows.Close()
-	for _, n := range names {
-		if _, err := db.Exec("DROP TRIGGER " + n); err != nil {
-			t.Fatal(err)
-		}
-	}
-}
 
 // TestTamper alters the record file directly and checks that Verify
 // names the first event that no longer matches (and its row).
@@ -91,13 +67,8 @@ func TestTamper(t *testing.T) {
 					t.Fatalf("finding the event of the row to alter: %v", err)
 				}
 			}
-			dropTriggers(t, db)
-			res0, err := db.Exec(tc.sql)
-			if err != nil {
-				t.Fatalf("%s: %v", tc.sql, err)
-			}
-			if n, _ := res0.RowsAffected(); n == 0 {
-				t.Fatalf("%s changed nothing", tc.sql)
+			if err := storetest.Tamper(path, tc.sql); err != nil {
+				t.Fatal(err)
 			}
 			res, err := s.Verify(ctx)
 			if err != nil {
