@@ -302,3 +302,22 @@ func (c *Config) maxFreqHz() float64 {
 	}
 	return m
 }
+
+// WithLength returns c with tubes of lengthM and its supports re-spaced
+// evenly between the tubesheets at about the same pitch as before (at
+// least one support), for larger inspections such as 20 m tubes
+// (FIELD.md §8: a full U-tube run of 16–25 m with supports every
+// 0.9–1.5 m). c itself is not changed.
+func (c Config) WithLength(lengthM float64) Config {
+	n0 := len(c.SupportsM)
+	span0 := c.LengthM - 2*c.TubesheetM
+	pitch := span0 / float64(n0+1)
+	c.LengthM = lengthM
+	span := lengthM - 2*c.TubesheetM
+	n := max(1, int(math.Round(span/pitch))-1)
+	c.SupportsM = make([]float64, n)
+	for k := range n {
+		c.SupportsM[k] = math.Round((c.TubesheetM+span*float64(k+1)/float64(n+1))*1e4) / 1e4
+	}
+	return c
+}

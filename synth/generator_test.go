@@ -459,3 +459,21 @@ func TestTubeMeta(t *testing.T) {
 		prev = g.tubeStart(i)
 	}
 }
+
+// TestWithLength checks re-spacing the supports for other tube lengths.
+func TestWithLength(t *testing.T) {
+	t.Parallel()
+	for _, l := range []float64{1.5, 5.2, 20} {
+		c := Demo().WithLength(l)
+		if err := c.Validate(); err != nil {
+			t.Errorf("length %v m: %v", l, err)
+		}
+		pitch := (l - 2*c.TubesheetM) / float64(len(c.SupportsM)+1)
+		if l > 3 && (pitch < 0.9 || pitch > 1.2) {
+			t.Errorf("length %v m: %d supports, pitch %.3f m, want about 1.03 m", l, len(c.SupportsM), pitch)
+		}
+	}
+	if got := Demo().WithLength(5.2).SupportsM; !reflect.DeepEqual(got, []float64{1.115, 2.105, 3.095, 4.085}) {
+		t.Errorf("demo length re-spaced to %v", got)
+	}
+}
