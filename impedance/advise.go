@@ -230,7 +230,9 @@ func Advise(in AdviceInput) (Advice, error) {
 	if in.CandidateHz > 0 {
 		c := rec("candidate", in.CandidateHz, "user candidate")
 		a.Candidate = &c
-		if in.WallM > 0 && in.WallM < 3*c.SkinDepthM {
+		// The 3δ rule concerns conductivity measurement on a part or plate,
+		// not tube examination, where the wall is about one δ by design.
+		if in.WallM > 0 && in.TubeOuterDiamM == 0 && in.WallM < 3*c.SkinDepthM {
 			a.Warnings = append(a.Warnings, fmt.Sprintf("thickness %.4g mm < 3δ = %.4g mm at %.4g kHz: a conductivity reading depends on thickness; use at least %.4g kHz (three standard depths, NDT Resource Center)",
 				in.WallM*1e3, 3*c.SkinDepthM*1e3, in.CandidateHz/1e3, a.MinFreq3DeltaHz/1e3))
 		}

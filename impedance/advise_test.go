@@ -201,3 +201,27 @@ func TestRound125(t *testing.T) {
 		}
 	}
 }
+
+func TestMaterials(t *testing.T) {
+	t.Parallel()
+	m, ok := LookupMaterial("Alloy 690")
+	if !ok {
+		t.Fatal("alloy 690 missing")
+	}
+	// f90 for 0.043 in alloy 690 from the table value: 289 kHz (worked f90 table).
+	if got := F90Hz(m.ConductivitySPerM, 1, 0.043*0.0254) / 1e3; !scalar.EqualWithinAbs(got, 289, 0.6) {
+		t.Errorf("f90 = %.2f kHz, want 289", got)
+	}
+	// 90/10 Cu-Ni: 9.0 %IACS (ρ 19.1 µΩ·cm, copper-mill datasheet).
+	if m, _ := LookupMaterial("cuni9010"); !scalar.EqualWithinAbs(m.ConductivitySPerM/58e4, 9.0, 0.05) {
+		t.Errorf("90/10 Cu-Ni %.3f %%IACS, want 9.0", m.ConductivitySPerM/58e4)
+	}
+	if _, ok := LookupMaterial("unobtainium"); ok {
+		t.Error("unknown material found")
+	}
+	for _, m := range Materials() {
+		if m.Source == "" || !(m.ConductivitySPerM > 0) {
+			t.Errorf("%s: missing source or conductivity", m.Name)
+		}
+	}
+}

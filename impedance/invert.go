@@ -16,7 +16,8 @@ const (
 	SolveThickness                        // plate or wall thickness
 )
 
-func (u Unknown) count() int {
+// Count returns the number of quantities in the set.
+func (u Unknown) Count() int {
 	n := 0
 	for b := Unknown(1); b <= SolveThickness; b <<= 1 {
 		if u&b != 0 {
@@ -106,7 +107,7 @@ func (c *Calibration) Invert(m PlanarForward, readings []Reading, opt InvertOpti
 	if solve == 0 {
 		solve = SolveConductivity | SolveLiftoff
 	}
-	n := solve.count()
+	n := solve.Count()
 	if len(readings) == 0 {
 		return Inversion{}, fmt.Errorf("no readings to invert")
 	}

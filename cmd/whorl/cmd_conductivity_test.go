@@ -1,0 +1,193 @@
+package main
+
+import (
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"whorl/synth"
+)
+
+// survey writes the demo conductivity survey into a fresh directory.
+func survey(t *testing.T) string {
+	t.Helper()
+	dir := t.TempDir()
+	if _, err := synth.WriteConductivitySurvey(dir, 42); err != nil {
+		t.Fatal(err)
+	}
+	return dir
+}
+
+func TestConductivityCommands(t *testing.T) {
+	t.Parallel()
+	dir := survey(t)
+	out := t.TempDir()
+	p := func(n string) string { return filepath.Join(dir, n) }
+	setup := filepath.Join(out, "cond.json")
+	code, stdout, stderr := runCmd(t, "conductivity", "calibrate", "--probe", p(synth.SurveyProbeFile), "--blocks", p(synth.SurveyBlocksFile),
+		"--shims", p(synth.SurveyShimsFile), "--readings", p(synth.SurveyCalFile), "-o", setup)
+	if code != 0 {
+		t.Fatalf("calibrate: exit %d\n%s%s", code, stdout, stderr)
+	}
+	for _, want := range []string{"effective lift-off", "RB-26", "SH-102", "Caution"} {
+		if !strings.Contains(stdout, want) {
+			t.Errorf("calibrate output lacks %q:\n%s", want, stdout)
+		}
+	}
+	code, stdout, stderr = runCmd(t, "conductivity", "measure", "--setup", setup, "--json", p(synth.SurveyReadingsFile))
+	if code != 0 {
+		t.Fatalf("measure: exit %d\n%s%s", code, stdout, stderr)
+	}
+	var res struct {
+		Results []struct {
+			Spot   string   `json:"spot"`
+			IACS20 *float64 `json:"conductivity_20c_pct_iacs"`
+			U20    *float64 `json:"u_conductivity_20c_pct_iacs"`
+			Flags  []string `json:"flags"`
+		} `json:"results"`
+	}
+	if err := json.Unmarshal([]byte(stdout), &res); err != nil {
+		t.Fatal(err)
+	}
+	if len(res.Results) != 28 {
+		t.Fatalf("%d results, want 28 (7 panels × 4 spots)", len(res.Results))
+	}
+	for _, r := range res.Results {
+		if r.IACS20 == nil {
+			t.Errorf("%s: not temperature-corrected; flags %q", r.Spot, r.Flags)
+			continue
+		}
+		thin := strings.HasPrefix(r.Spot, "PNL-A05")
+		has3d := strings.Contains(strings.Join(r.Flags, ";"), "3δ")
+		if thin != has3d {
+			t.Errorf("%s: flags %q; the 0.8 mm panel (and only it) is thinner than 3δ at 60 kHz", r.Spot, r.Flags)
+		}
+	}
+	// Table and CSV forms.
+	code, stdout, _ = runCmd(t, "conductivity", "measure", "--setup", setup, p(synth.SurveyReadingsFile))
+	if code != 0 || !strings.Contains(stdout, "PNL-A07-4") || !strings.Contains(stdout, "%IACS@20°C") {
+		t.Errorf("table: exit %d\n%s", code, stdout)
+	}
+	code, stdout, _ = runCmd(t, "conductivity", "measure", "--setup", setup, "--csv", p(synth.SurveyReadingsFile))
+	if code != 0 || strings.Count(stdout, "\n") != 29 || !strings.HasPrefix(stdout, "file,spot,freqs_hz,conductivity_pct_iacs") {
+		t.Errorf("csv: exit %d\n%s", code, stdout)
+	}
+	// A coating set-up is refused by conductivity measure.
+	coat := filepath.Join(out, "coat.json")
+	code, stdout, stderr = runCmd(t, "coating", "calibrate", "--probe", p(synth.SurveyProbeFile), "--blocks", p(synth.SurveyBlocksFile),
+		"--shims", p(synth.SurveyShimsFile), "--readings", p(synth.SurveyCoatingCalFile), "-o", coat)
+	if code != 0 {
+		t.Fatalf("coating calibrate: exit %d\n%s%s", code, stdout, stderr)
+	}
+	code, stdout, stderr = runCmd(t, "coating", "measure", "--setup", coat, p(synth.SurveyCoatingFile))
+	if code != 0 || !strings.Contains(stdout, "PNL-C01-10") || !strings.Contains(stdout, "E376") {
+		t.Errorf("coating measure: exit %d\n%s%s", code, stdout, stderr)
+	}
+	code, _, stderr = runCmd(t, "conductivity", "measure", "--setup", coat, p(synth.SurveyReadingsFile))
+	if code != exitUsage || !strings.Contains(stderr, "coating set-up") {
+		t.Errorf("wrong set-up kind: exit %d, stderr %q", code, stderr)
+	}
+}
+
+func TestConductivityBadInput(t *testing.T) {
+	t.Parallel()
+	dir := survey(t)
+	tmp := t.TempDir()
+	bad := filepath.Join(tmp, "bad.csv")
+	if err := os.WriteFile(bad, []byte("spot,freq_hz,x_v,y_v\nP1,6e4,1.0,abc\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	setup := filepath.Join(tmp, "s.json")
+	code, _, stderr := runCmd(t, "conductivity", "calibrate", "--probe", filepath.Join(dir, synth.SurveyProbeFile), "--blocks", filepath.Join(dir, synth.SurveyBlocksFile),
+		"--readings", filepath.Join(dir, synth.SurveyCalFile), "--shims", filepath.Join(dir, synth.SurveyShimsFile), "-o", setup)
+	if code != 0 {
+		t.Fatalf("calibrate: %d %s", code, stderr)
+	}
+	tests := []struct {
+		name   string
+		args   []string
+		code   int
+		stderr string
+	}{
+		{"bad number", []string{"conductivity", "measure", "--setup", setup, bad}, exitData, `bad.csv:2:4 (column "y_v"): bad file: "abc" is not a finite number`},
+		{"missing file", []string{"conductivity", "measure", "--setup", setup, filepath.Join(tmp, "none.csv")}, exitData, "none.csv"},
+		{"no setup", []string{"conductivity", "measure", bad}, exitUsage, "--setup is required"},
+		{"blocks missing", []string{"conductivity", "calibrate", "--probe", filepath.Join(dir, synth.SurveyProbeFile), "--readings", bad, "-o", setup}, exitUsage, "--blocks and --readings are required"},
+		{"readings as blocks", []string{"conductivity", "calibrate", "--probe", filepath.Join(dir, synth.SurveyProbeFile), "--blocks", bad, "--readings", bad, "-o", setup}, exitData, `bad.csv:1:1 (column "spot"): bad file: unknown column`},
+		{"no probe", []string{"conductivity", "calibrate", "--blocks", bad, "--readings", bad, "-o", setup}, exitUsage, "probe:"},
+		{"bad unit", []string{"advise", "--conductivity", "43%IAC"}, exitUsage, "unknown conductivity unit"},
+		{"bad family", []string{"model", "diagram", "--probe", filepath.Join(dir, synth.SurveyProbeFile), "--freq", "60kHz", "--family", "colour"}, exitUsage, "--family"},
+		{"bad setup", []string{"conductivity", "measure", "--setup", bad, bad}, exitData, "bad setup file"},
+	}
+	for _, tc := range tests {
+		tc := tc
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			code, _, stderr := runCmd(t, tc.args...)
+			if code != tc.code || !strings.Contains(stderr, tc.stderr) {
+				t.Errorf("exit %d, stderr %q; want exit %d and %q", code, stderr, tc.code, tc.stderr)
+			}
+		})
+	}
+}
+
+func TestModelDiagramCommand(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	fig := filepath.Join(dir, "d.png")
+	data := filepath.Join(dir, "d.csv")
+	code, _, stderr := runCmd(t, "model", "diagram", "--inner-radius", "1mm", "--outer-radius", "2.5mm", "--coil-length", "1.5mm", "--turns", "200",
+		"--liftoff", "0.3mm", "--freq", "60kHz", "--curve", "0.2mm", "--curve", "0.5mm", "--points", "20", "-o", fig, "--csv", data)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	b, err := os.ReadFile(fig)
+	if err != nil || !strings.HasPrefix(string(b), "\x89PNG") {
+		t.Errorf("figure: %v", err)
+	}
+	c, _ := os.ReadFile(data)
+	if n := strings.Count(string(c), "\n"); n != 41 {
+		t.Errorf("CSV has %d lines, want 41", n)
+	}
+	for _, fam := range []string{"liftoff", "thickness", "permeability", "frequency"} {
+		args := []string{"model", "diagram", "--inner-radius", "1mm", "--outer-radius", "2.5mm", "--coil-length", "1.5mm", "--turns", "200",
+			"--liftoff", "0.3mm", "--family", fam, "--layer", "inf:43%IACS", "--points", "8", "--json"}
+		if fam != "frequency" {
+			args = append(args, "--freq", "20kHz")
+		}
+		code, stdout, stderr := runCmd(t, args...)
+		var d struct {
+			Family string `json:"family"`
+			Curves []struct {
+				Points []struct{ R, X float64 } `json:"points"`
+			} `json:"curves"`
+		}
+		if code != 0 || json.Unmarshal([]byte(stdout), &d) != nil || d.Family != fam || len(d.Curves) != 1 || len(d.Curves[0].Points) != 8 {
+			t.Errorf("%s: exit %d, %s %s", fam, code, stdout, stderr)
+		}
+	}
+}
+
+func TestAdviseCommand(t *testing.T) {
+	t.Parallel()
+	code, stdout, stderr := runCmd(t, "advise", "--material", "alloy690", "--wall", "0.043in", "--id")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, stderr)
+	}
+	// f90 of 0.043 in alloy 690 is 289 kHz (worked f90 table, 3ρ/t² rule).
+	for _, want := range []string{"f90                 289 kHz", "prime", "400 kHz", "mix-partner", "200 kHz", "landmark", "25 kHz", "800 kHz"} {
+		if !strings.Contains(stdout, want) {
+			t.Errorf("advise output lacks %q:\n%s", want, stdout)
+		}
+	}
+	code, stdout, _ = runCmd(t, "advise", "--conductivity", "58MS/m", "--probe-speed", "5m/s", "--field-length", "10mm", "--json")
+	var a struct {
+		Rm       float64  `json:"magnetic_reynolds_number"`
+		Warnings []string `json:"warnings"`
+	}
+	if code != 0 || json.Unmarshal([]byte(stdout), &a) != nil || a.Rm < 3.5 || a.Rm > 3.7 || len(a.Warnings) == 0 {
+		t.Errorf("copper bar at 5 m/s: exit %d, %s", code, stdout)
+	}
+}
