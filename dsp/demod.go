@@ -89,16 +89,16 @@ var ErrRecord = errors.New("raw record")
 // splineOrder is the number of boxcars in the first decimation stage.
 const splineOrder = 4
 
-// ChannelLabel names the demodulated channel of a coil at a frequency:
-// "diff-400k" for 400 kHz, "abs-1.5k", "abs-750Hz".
+// ChannelLabel names the demodulated channel of a coil at a frequency, in
+// the scan model's style: "400k-diff" for 400 kHz, "1.5k-abs", "750Hz-abs".
 func ChannelLabel(coil string, freqHz float64) string {
 	if coil == "" {
 		coil = "coil"
 	}
 	if freqHz >= 1000 {
-		return coil + "-" + strconv.FormatFloat(freqHz/1000, 'g', -1, 64) + "k"
+		return strconv.FormatFloat(freqHz/1000, 'g', -1, 64) + "k-" + coil
 	}
-	return coil + "-" + strconv.FormatFloat(freqHz, 'g', -1, 64) + "Hz"
+	return strconv.FormatFloat(freqHz, 'g', -1, 64) + "Hz-" + coil
 }
 
 // FlawBandWarning returns a warning when a low-pass cut-off lies below the
@@ -214,11 +214,12 @@ func firstNonFinite(s []float64) int {
 // response is sinc⁴(f·D1/fs)/sinc⁴(f/fs)·|H(f)|², unity at 0 Hz; the first
 // stage's droop at the cut-off is below 0.5 % for the default settings.
 // Output samples are centred on input samples, so there is no delay. At
-// each end of the record the output is dropped for the settling time of the
-// low-pass (until its impulse response has decayed below 1e-9 of its
-// peak, see DemodReport.TrimmedSamples), because products outside the pass
-// band that the first stage leaves would otherwise ring into the
-// zero-phase filter's edge padding.
+// each end of the record the output is dropped for as long as products
+// outside the pass band that the first stage leaves (at 2f and at the
+// other tones' sums and differences) could still ring through the
+// low-pass from the zero-phase filter's edge padding above 1e-6 of the
+// signal (see edgeThreshold and DemodReport.TrimmedSamples); for tones far
+// apart this is nothing or a few samples.
 //
 // Time-multiplexed excitation (rec.SlotS > 0): each slot holds one
 // frequency; its first opt.SettleS seconds are discarded and the rest is
@@ -314,7 +315,7 @@ func demodSimultaneous(rec *acquire.RawRecord, opt DemodOptions) (*acquire.Scan,
 	n := len(rec.VoltageV)
 	half := splineOrder * (d1 - 1) / 2
 	m1 := dm.stage1Len(n)
-	trim := (settleLen(sos) + d2 - 1) / d2
+	trim := (settleLen(sos, edgeThreshold(rec.ExcitationHz, fs, d1)) + d2 - 1) / d2
 	nAll := (m1 + d2 - 1) / d2
 	nOut := nAll - 2*trim
 	if m1 <= sos.PadLen() || nOut < 2 {
@@ -406,9 +407,46 @@ func demodSimultaneous(rec *acquire.RawRecord, opt DemodOptions) (*acquire.Scan,
 	return scan, rep, scan.Validate()
 }
 
+// splineGain returns the magnitude response of the first (B-spline)
+// stage at freqHz: |sin(πf·d1/fs) / (d1·sin(πf/fs))|⁴.
+func splineGain(freqHz, fsHz float64, d1 int) float64 {
+	den := float64(d1) * math.Sin(math.Pi*freqHz/fsHz)
+	if den == 0 {
+		return 1
+	}
+	return math.Pow(math.Abs(math.Sin(math.Pi*freqHz*float64(d1)/fsHz)/den), splineOrder)
+}
+
+// edgeThreshold returns the level, relative to its peak, to which the
+// low-pass impulse response must decay before output samples near the
+// record ends are kept. Products the first stage leaves outside the pass
+// band (at 2f, f+g and |f−g| for the other tones g, with gain r) cause
+// a transient at each end of about r times their amplitude; keeping it
+// below 1e-6 of the signal even for a neighbouring tone 100 times
+// stronger needs a decay to 1e-8/r (capped at 1: no trimming).
+func edgeThreshold(freqsHz []float64, fsHz float64, d1 int) float64 {
+	var r float64
+	for _, f := range freqsHz {
+		r = math.Max(r, splineGain(2*f, fsHz, d1))
+		for _, g := range freqsHz {
+			if g != f {
+				r = math.Max(r, splineGain(f+g, fsHz, d1))
+				r = math.Max(r, splineGain(math.Abs(f-g), fsHz, d1))
+			}
+		}
+	}
+	if r == 0 {
+		return 1
+	}
+	return math.Min(1, 1e-8/r)
+}
+
 // settleLen returns the number of samples after which the impulse
-// response of s stays below 1e-9 of its peak magnitude.
-func settleLen(s SOS) int {
+// response of s stays below rel times its peak magnitude.
+func settleLen(s SOS, rel float64) int {
+	if rel >= 1 {
+		return 0
+	}
 	const limit = 1 << 20
 	x := make([]complex128, 4096)
 	x[0] = 1
@@ -421,7 +459,7 @@ func settleLen(s SOS) int {
 		for i, v := range x {
 			a := cmplx.Abs(v)
 			peak = math.Max(peak, a)
-			if a > 1e-9*peak {
+			if a > rel*peak {
 				last = base + i
 				quiet = false
 			}

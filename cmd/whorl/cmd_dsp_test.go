@@ -78,7 +78,7 @@ func TestDemodCommand(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	c := s.Channel("diff-40k")
+	c := s.Channel("40k-diff")
 	if c == nil || s.SampleRateHz != 1000 {
 		t.Fatalf("channels %v, rate %v", s.Channels, s.SampleRateHz)
 	}
