@@ -32,4 +32,30 @@
 //
 // The complex modified Bessel functions the cylindrical models need are
 // in the subpackage cbessel.
+//
+// # Diagrams, fits and inversions
+//
+// ComputeDiagram evaluates impedance-plane families (conductivity curves
+// per lift-off, lift-off lines, thickness, permeability and frequency
+// curves per conductivity) concurrently under a context; Diagram.Save
+// draws them with gonum/plot (PNG, SVG or PDF by extension) on axes ΔR/X0
+// and X/X0. NormalizedImpedance gives the normalised impedance of one
+// specimen, with a coil-scale factor applied through the similarity of the
+// Dodd–Deeds solution.
+//
+// An instrument reads V = g·Zn + c (volts; g holds gain and rotation, c the
+// offset) per frequency. Calibrate fits g and c, and optionally the
+// effective lift-off and a coil scale, to readings on certified blocks and
+// shims (Levenberg–Marquardt with variable projection); Calibration.Invert
+// turns readings into conductivity, lift-off above the calibration
+// lift-off (a non-conducting coating) and plate thickness, at one or more
+// frequencies, with standard uncertainties (k = 1) from the reading noise
+// and the calibration covariance by first-order propagation. Lift-off in
+// a Calibration is the effective distance from the winding to a bare
+// surface; lift-off in an Inversion is measured from there.
+//
+// Advise, F90Hz and PhaseSpreadRad give frequency advice; MagneticReynolds
+// and ThinSheetForces the speed effect; ConductivityAt20C the temperature
+// correction σ20 = σT[1 + α(T − 20 °C)]. File formats are described in
+// docs/conductivity.md.
 package impedance
