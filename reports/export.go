@@ -57,7 +57,9 @@ func writeCSV(w io.Writer, header []string, rows func(emit func([]string) error)
 	}
 	emit := func(rec []string) error {
 		for i, f := range rec {
-			rec[i] = csvLineBreaks.Replace(f)
+			if strings.IndexByte(f, '\r') >= 0 {
+				rec[i] = csvLineBreaks.Replace(f)
+			}
 		}
 		return cw.Write(rec)
 	}
