@@ -146,8 +146,8 @@ func TestReviewDesk(t *testing.T) {
 		}
 	}
 	typeRune(w, '0')
-	if p := s.WS.Plane(); p.RotationRad != 0 || p.Null != 0 {
-		t.Errorf("'0' left %+v", p)
+	if p := s.WS.Plane(); p.RotationRad != 0 || !s.WS.AutoSpan() {
+		t.Errorf("'0' left %+v, auto %v", p, s.WS.AutoSpan())
 	}
 	capture(t, w, "review-after-keys")
 }

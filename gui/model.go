@@ -11,6 +11,7 @@ import (
 
 	"whorl/gui/pixels"
 	"whorl/gui/viewmodel"
+	"whorl/impedance"
 )
 
 // ModelDesk is the coil-model explorer: sliders for frequency,
@@ -201,4 +202,12 @@ func (d *ModelDesk) refresh() {
 		b.WriteString(n + "\n")
 	}
 	d.advice.SetText(strings.TrimSpace(b.String()))
+}
+
+// DefaultModelParams is the explorer's starting point: a small surface
+// coil (1.0–1.6 mm radii, 1 mm long, 120 turns) 0.1 mm above a 2 mm
+// aluminium-alloy plate of 20 MS/m at 100 kHz.
+func DefaultModelParams() viewmodel.ModelParams {
+	return viewmodel.ModelParams{Coil: impedance.Coil{InnerRadiusM: 1.0e-3, OuterRadiusM: 1.6e-3, LengthM: 1e-3, Turns: 120},
+		LiftoffM: 0.1e-3, ThicknessM: 2e-3, SigmaSPerM: 20e6, MuR: 1, FreqHz: 100e3}
 }

@@ -104,9 +104,6 @@ func (r *planeRenderer) refreshText() {
 	if a, ok := p.src.(interface{ AutoSpan() bool }); ok && a.AutoSpan() {
 		r.top.Text += " (auto)"
 	}
-	if pl.Null != 0 {
-		r.top.Text += "   nulled"
-	}
 	r.top.TextSize, r.top.Color = capSz+1, p.th.fg()
 	r.top.TextStyle = fyne.TextStyle{Bold: true}
 	r.bottom.TextSize, r.bottom.Color = capSz+1, p.th.PlotStyle().Chord

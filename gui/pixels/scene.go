@@ -99,7 +99,7 @@ func DecimateScene(p *StripPanel, chart *viewmodel.Chart, ch *acquire.Channel, e
 	}
 	pad := 0.08 * (ymax - ymin)
 	p.YLo, p.YHi = ymin-pad, ymax+pad
-	p.GridY, _ = viewmodel.Ticks(p.YLo, p.YHi, max(2, p.Area.H()/40))
+	p.GridY, _ = viewmodel.Ticks(p.YLo, p.YHi, max(2, p.Area.H()/28))
 }
 
 // DrawStrips draws the scene. The canvas is cleared first.

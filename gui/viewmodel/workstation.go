@@ -417,8 +417,9 @@ func (ws *Workstation) SetRotation(rad float64) {
 	ws.changed(ChangedPlane)
 }
 
-// AutoSpan reports whether the span follows each measurement (until the
-// user sets the gain).
+// AutoSpan reports whether the display follows each measurement (span
+// fitted to the chord, centred on its midpoint) until the user sets the
+// gain or the null.
 func (ws *Workstation) AutoSpan() bool { return ws.autoSpan }
 
 // GainPlane magnifies the impedance-plane display by f.
@@ -441,18 +442,20 @@ func (ws *Workstation) SetSpan(v float64) {
 // of the measured channel.
 func (ws *Workstation) NullPlane() {
 	if z, ok := ws.windowSample(); ok {
+		ws.autoSpan = false
 		ws.plane.Null = z
 		ws.changed(ChangedPlane)
 	}
 }
 
-// ResetPlane removes rotation and null, and lets the span follow the
-// measurement again.
+// ResetPlane removes the display rotation and lets span and centre follow
+// the measurement again.
 func (ws *Workstation) ResetPlane() {
 	ws.plane = Plane{SpanV: DefaultSpanV}
 	ws.autoSpan = true
 	if ws.measOK && ws.meas.VppV > 0 {
 		ws.plane.SpanV = niceSpan(ws.meas.VppV * 1.3)
+		ws.plane.Null = (ws.meas.ChordA + ws.meas.ChordB) / 2
 	}
 	ws.changed(ChangedPlane)
 }
@@ -511,7 +514,9 @@ func (ws *Workstation) Remeasure() {
 		}
 		ws.meas, ws.measOK = m, true
 		if ws.autoSpan && m.VppV > 0 {
+			// Follow the measurement: centre the chord, fit its length.
 			ws.plane.SpanV = niceSpan(m.VppV * 1.3)
+			ws.plane.Null = (m.ChordA + m.ChordB) / 2
 		}
 		ws.changed(ChangedMeasurement | ChangedPlane)
 	})
