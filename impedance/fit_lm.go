@@ -91,10 +91,15 @@ func (prob *lmProblem) solve(p0 []float64) (lmResult, error) {
 	lambda := 1e-3
 	iter := 0
 	converged := false
+	// jacFresh is set when w.jac holds the Jacobian at p, or at a point
+	// so near it (the last step was below 1e-4 of the difference steps)
+	// that a new one would differ only by rounding.
+	jacFresh := false
 	for ; iter < maxIter && !converged; iter++ {
 		if err := prob.jacobian(w.jac, p, w.r, w.col); err != nil {
 			return lmResult{}, err
 		}
+		jacFresh = true
 		normalEquations(w.a, w.g, w.jac, w.r, m, n)
 		if cost == 0 {
 			converged = true
@@ -124,6 +129,7 @@ func (prob *lmProblem) solve(p0 []float64) (lmResult, error) {
 					}
 				}
 				rel := (cost - costTry) / cost
+				jacFresh = small
 				copy(p, w.pTry)
 				w.r, w.rTry = w.rTry, w.r
 				cost = costTry
@@ -141,8 +147,10 @@ func (prob *lmProblem) solve(p0 []float64) (lmResult, error) {
 			}
 		}
 	}
-	if err := prob.jacobian(w.jac, p, w.r, w.col); err != nil {
-		return lmResult{}, err
+	if !jacFresh {
+		if err := prob.jacobian(w.jac, p, w.r, w.col); err != nil {
+			return lmResult{}, err
+		}
 	}
 	res := lmResult{p: p, r: w.r, jac: w.jac, cost: cost, iter: iter}
 	if !converged {

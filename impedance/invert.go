@@ -207,8 +207,11 @@ func (c *Calibration) Invert(m PlanarForward, readings []Reading, opt InvertOpti
 		Solve: solve, ConductivitySPerM: s.ConductivitySPerM, ExtraLiftoffM: l, ThicknessM: s.ThicknessM,
 		MisfitV: math.Sqrt(res.cost / float64(mres)), Iterations: res.iter,
 	}
-	if err := residual(res.r, res.p); err != nil {
-		return Inversion{}, err
+	// The model values at the solution, from its residuals:
+	// Zn = (r + V − c)/g, without another model evaluation.
+	for i, r := range readings {
+		ch := c.Channels[chIdx[i]]
+		zn[i] = (complex(res.r[2*i], res.r[2*i+1]) + r.V - ch.Offset) / ch.Gain
 	}
 	cov, err := c.inversionCovariance(m, readings, chIdx, zn, res.jac, n, iL, s, l)
 	if err != nil {
