@@ -136,7 +136,7 @@ func Build(std *Standard, proc *Procedure, scan *acquire.Scan, opt BuildOptions)
 	if err := scan.Validate(); err != nil {
 		return nil, err
 	}
-	if err := checkScanChannels(proc, scan); err != nil {
+	if err := CheckScanChannels(proc, scan); err != nil {
 		return nil, err
 	}
 	posM, err := ScanPositions(scan)
@@ -211,6 +211,14 @@ func Build(std *Standard, proc *Procedure, scan *acquire.Scan, opt BuildOptions)
 		if err != nil {
 			return nil, err
 		}
+		if m.ResidueWindowM > 0 && opt.Opening == nil {
+			lz := samples[proc.Landmarks.Channel]
+			res, err := residueTemplate(m, found[m.TrainingFlaws[0]], out, lz, stepM)
+			if err != nil {
+				return nil, err
+			}
+			rec.Residue = res
+		}
 		cal.Mixes = append(cal.Mixes, *rec)
 		samples[m.Name] = out
 		modes[m.Name] = modes[m.Primary]
@@ -278,6 +286,32 @@ func Build(std *Standard, proc *Procedure, scan *acquire.Scan, opt BuildOptions)
 				cc.RefVpp = vpp
 			}
 		}
+		if lo := su.Liftoff; lo != nil {
+			var win [2]int
+			switch lo.Reference {
+			case LiftoffScanStart:
+				win = [2]int{0, min(len(z), WindowSamples(lo.WindowM, stepM))}
+			case LiftoffScanEnd:
+				win = [2]int{max(0, len(z)-WindowSamples(lo.WindowM, stepM)), len(z)}
+			default:
+				lf := found[lo.Reference]
+				if lf == nil {
+					return nil, fmt.Errorf("channel %s: lift-off reference %s was not found on the standard scan", su.Channel, lo.Reference)
+				}
+				h := WindowSamples(lo.WindowM, stepM) / 2
+				win = [2]int{max(0, lf.Sample-h), min(len(z), lf.Sample+h)}
+			}
+			buf = buf[:0]
+			for _, v := range z[win[0]:win[1]] {
+				buf = append(buf, f*v)
+			}
+			ch := pp.Measure(buf)
+			if !(ch.Vpp > 0) {
+				return nil, fmt.Errorf("channel %s: no lift-off signal at %s", su.Channel, lo.Reference)
+			}
+			cc.LiftoffDeg = math.Mod(ch.PhaseRad*180/math.Pi, 180)
+			cc.LiftoffWindow = win
+		}
 		for _, spec := range su.Curves {
 			cv, warn, err := fitFromMeasurements(spec, &cc, std)
 			if err != nil {
@@ -330,9 +364,9 @@ func dedupe(s []string) []string {
 	return out
 }
 
-// checkScanChannels reports a procedure channel missing from the scan or
+// CheckScanChannels reports a procedure channel missing from the scan or
 // recorded with another frequency or mode.
-func checkScanChannels(proc *Procedure, scan *acquire.Scan) error {
+func CheckScanChannels(proc *Procedure, scan *acquire.Scan) error {
 	for _, c := range proc.Channels {
 		sc := scan.Channel(c.Name)
 		if sc == nil {
@@ -411,29 +445,8 @@ func locateFlaws(std *Standard, rule LocateRule, z []complex128, posM []float64,
 	thr := rule.MinFraction * peak
 	var cands []candidate
 	if peak > 0 {
-		for i := 0; i < n; i++ {
-			if sp[i] < thr {
-				continue
-			}
-			lo, hi := max(0, i-w), min(n, i+w+1)
-			isMax := true
-			for k := lo; k < hi; k++ {
-				if sp[k] > sp[i] || (sp[k] == sp[i] && k < i) {
-					isMax = false
-					break
-				}
-			}
-			if isMax {
-				// The spread is flat while the window holds the whole
-				// signal: take the middle of the plateau.
-				j := i
-				for j+1 < n && sp[j+1] == sp[i] {
-					j++
-				}
-				c := (i + j) / 2
-				cands = append(cands, candidate{sample: c, posM: posM[c], spread: sp[i]})
-				i = j
-			}
+		for _, c := range measure.Peaks(nil, sp, thr, w) {
+			cands = append(cands, candidate{sample: c, posM: posM[c], spread: sp[c]})
 		}
 	}
 	flaws := std.Flaws

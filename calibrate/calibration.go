@@ -136,6 +136,11 @@ type ChannelCal struct {
 	Measurements []FlawMeasurement `json:"measurements"`
 	Curves       []*Curve          `json:"curves,omitempty"`
 	SizingCurve  string            `json:"sizing_curve,omitempty"`
+	// LiftoffDeg is the measured lift-off axis of the calibrated channel
+	// in [0, 180) degrees (0, the horizontal, when the procedure names no
+	// lift-off reference); LiftoffWindow is where it was measured.
+	LiftoffDeg    float64 `json:"liftoff_deg"`
+	LiftoffWindow [2]int  `json:"liftoff_window,omitempty"`
 }
 
 // Factor returns the complex factor Gain·e^{j·RotationDeg} that turns raw

@@ -71,17 +71,22 @@ type Procedure struct {
 	// Lobe is LobeLater or LobeEarlier (default later).
 	Lobe string `json:"lobe,omitempty"`
 	// ProbeDirection is the direction of travel the lobe refers to ("pull" or "push").
-	ProbeDirection string          `json:"probe_direction,omitempty"`
-	Channels       []ChannelRole   `json:"channels"`
-	Mixes          []MixDef        `json:"mixes,omitempty"`
-	Locate         LocateRule      `json:"locate"`
-	Setups         []SetupRule     `json:"setups"`
-	Detection      []DetectRule    `json:"detection"`
-	Alarms         []AlarmRegion   `json:"alarms,omitempty"`
-	Landmarks      LandmarkRule    `json:"landmarks"`
-	Classification ClassRules      `json:"classification"`
-	ReportingPct   float64         `json:"reporting_threshold_pct"`
-	Check          CheckTolerances `json:"check"`
+	ProbeDirection string        `json:"probe_direction,omitempty"`
+	Channels       []ChannelRole `json:"channels"`
+	Mixes          []MixDef      `json:"mixes,omitempty"`
+	Locate         LocateRule    `json:"locate"`
+	Setups         []SetupRule   `json:"setups"`
+	Detection      []DetectRule  `json:"detection"`
+	Alarms         []AlarmRegion `json:"alarms,omitempty"`
+	Landmarks      LandmarkRule  `json:"landmarks"`
+	Classification ClassRules    `json:"classification"`
+	ReportingPct   float64       `json:"reporting_threshold_pct"`
+	// ReportBelowRange reports flaw-like indications whose reading lies
+	// beyond the shallow end of the sizing curve (their depth is only known
+	// to be less than the shallowest reference); false leaves them in the
+	// indication list, flagged out of range, but not reportable.
+	ReportBelowRange bool            `json:"report_below_range,omitempty"`
+	Check            CheckTolerances `json:"check"`
 	// Conductivity holds the conductivity set-up, when the procedure has one.
 	Conductivity *ConductivitySetup `json:"conductivity,omitempty"`
 }
@@ -107,6 +112,12 @@ type MixDef struct {
 	Form          string   `json:"form"`
 	TrainingFlaws []string `json:"training_flaws"`
 	WindowM       float64  `json:"window_m"`
+	// ResidueWindowM, when positive, keeps what the mix leaves of the
+	// first training flaw (its residue) over this length, with that
+	// flaw's landmark-channel signal, so that analysis can subtract the
+	// residue expected at each support scaled by the support's own
+	// landmark-channel signal (see analysis).
+	ResidueWindowM float64 `json:"residue_window_m,omitempty"`
 }
 
 // LocateRule says how flaw signals are found on a standard scan.
@@ -132,7 +143,27 @@ type SetupRule struct {
 	// SizingCurve names the curve used to size indications on this channel
 	// (empty: indications are not sized on it).
 	SizingCurve string `json:"sizing_curve,omitempty"`
+	// Liftoff, when given, says where on the standard scan the lift-off
+	// (probe motion) direction of the calibrated channel is measured;
+	// geometry signals are then judged against that direction instead of
+	// the horizontal.
+	Liftoff *LiftoffRule `json:"liftoff,omitempty"`
 }
+
+// LiftoffRule names the signal that shows the lift-off direction: a flaw
+// of the standard (for example a dent or an expansion), or the probe
+// entering ("scan-start") or leaving ("scan-end") the standard, measured
+// in a window of WindowM metres.
+type LiftoffRule struct {
+	Reference string  `json:"reference"`
+	WindowM   float64 `json:"window_m"`
+}
+
+// Lift-off references that are not flaws.
+const (
+	LiftoffScanStart = "scan-start"
+	LiftoffScanEnd   = "scan-end"
+)
 
 // RotationRule puts the Reference flaw's peak-to-peak phase at AngleDeg.
 // With a reference that is a probe-motion or lift-off-like signal and an
@@ -164,7 +195,18 @@ type DetectRule struct {
 	Channel      string  `json:"channel"`
 	ThresholdVpp float64 `json:"threshold_vpp"`
 	WindowM      float64 `json:"window_m"`
+	// Zone limits detection on the channel: ZoneAll (or empty) everywhere,
+	// ZoneLandmarks only inside landmark zones (a support mix), ZoneFreeSpan
+	// only outside them.
+	Zone string `json:"zone,omitempty"`
 }
+
+// Detection zones.
+const (
+	ZoneAll       = "all"
+	ZoneLandmarks = "landmarks"
+	ZoneFreeSpan  = "free-span"
+)
 
 // AlarmRegion is a region of the impedance plane tested against the
 // peak-to-peak chord vector of a window (its tail at the origin): a sector
@@ -215,6 +257,15 @@ type ClassRules struct {
 	// other geometry signal.
 	GeometryBandDeg float64 `json:"geometry_band_deg"`
 	GeometryMinVpp  float64 `json:"geometry_min_vpp"`
+	// GeometryMaxCross is the largest cross extent of a geometry signal
+	// as a fraction of its Vpp: a lift-off-like trace that bulges more
+	// than this across its chord carries another signal and goes to an
+	// analyst.
+	GeometryMaxCross float64 `json:"geometry_max_cross"`
+	// ResidueMaxVpp: on a mix in a landmark zone, a straight (cross extent
+	// at most GeometryMaxCross × Vpp) signal of at most this Vpp outside
+	// the flaw phase band is the landmark's mix residue (0: no such rule).
+	ResidueMaxVpp float64 `json:"residue_max_vpp,omitempty"`
 	// DepositRatio: a signal whose landmark-channel Vpp exceeds this
 	// multiple of its prime Vpp, away from a landmark, is a deposit.
 	DepositRatio float64 `json:"deposit_ratio"`
@@ -398,6 +449,9 @@ func (p *Procedure) validate(file string) error {
 		if !pos(m.WindowM) {
 			return bad(at+".window_m", "%v: expected a positive window length in metres", m.WindowM)
 		}
+		if !finite(m.ResidueWindowM) || m.ResidueWindowM < 0 {
+			return bad(at+".residue_window_m", "%v: expected 0 (none) or a positive length in metres", m.ResidueWindowM)
+		}
 		names[m.Name] = "mix"
 	}
 	known := func(n string) bool { _, ok := names[n]; return ok }
@@ -452,6 +506,14 @@ func (p *Procedure) validate(file string) error {
 				return bad(cat, "%v", err)
 			}
 		}
+		if s.Liftoff != nil {
+			if s.Liftoff.Reference == "" {
+				return bad(at+".liftoff.reference", "missing: name a standard flaw, scan-start or scan-end")
+			}
+			if !pos(s.Liftoff.WindowM) {
+				return bad(at+".liftoff.window_m", "%v: expected a positive length in metres", s.Liftoff.WindowM)
+			}
+		}
 		if s.SizingCurve != "" && !curves[s.SizingCurve] {
 			return bad(at+".sizing_curve", "%q: not one of this set-up's curves", s.SizingCurve)
 		}
@@ -472,6 +534,11 @@ func (p *Procedure) validate(file string) error {
 		}
 		if !pos(d.WindowM) {
 			return bad(at+".window_m", "%v: expected a positive length in metres", d.WindowM)
+		}
+		switch d.Zone {
+		case "", ZoneAll, ZoneLandmarks, ZoneFreeSpan:
+		default:
+			return bad(at+".zone", "%q: expected all, landmarks or free-span", d.Zone)
 		}
 	}
 	for i, a := range p.Alarms {
@@ -534,6 +601,10 @@ func (p *Procedure) validate(file string) error {
 		return bad("classification.geometry_band_deg", "%v: expected 0 to 90 degrees", c.GeometryBandDeg)
 	case !finite(c.GeometryMinVpp) || c.GeometryMinVpp < 0:
 		return bad("classification.geometry_min_vpp", "%v: expected a non-negative voltage", c.GeometryMinVpp)
+	case !finite(c.GeometryMaxCross) || c.GeometryMaxCross <= 0 || c.GeometryMaxCross > 1:
+		return bad("classification.geometry_max_cross", "%v: expected a fraction in (0, 1]", c.GeometryMaxCross)
+	case !finite(c.ResidueMaxVpp) || c.ResidueMaxVpp < 0:
+		return bad("classification.residue_max_vpp", "%v: expected a non-negative voltage", c.ResidueMaxVpp)
 	case !finite(c.DepositRatio) || c.DepositRatio <= 0:
 		return bad("classification.deposit_ratio", "%v: expected a positive ratio", c.DepositRatio)
 	case !finite(c.MinSNR) || c.MinSNR < 0:
@@ -633,6 +704,11 @@ func (p *Procedure) CheckStandard(s *Standard) error {
 		}
 		if err := need(fmt.Sprintf("setups[%d].normalisation.reference", i), su.Normalisation.Reference); err != nil {
 			return err
+		}
+		if lo := su.Liftoff; lo != nil && lo.Reference != LiftoffScanStart && lo.Reference != LiftoffScanEnd {
+			if err := need(fmt.Sprintf("setups[%d].liftoff.reference", i), lo.Reference); err != nil {
+				return err
+			}
 		}
 		for k, c := range su.Curves {
 			for _, f := range c.Flaws {

@@ -250,3 +250,20 @@ func RMS(z []complex128) float64 {
 	}
 	return math.Sqrt(s / float64(len(z)))
 }
+
+// CrossExtent returns the extent of z across the direction dirRad: the
+// peak-to-peak spread of the samples' components perpendicular to it, in
+// volts. A straight-line trace along dirRad has cross extent 0; a figure
+// that bulges away from its chord has a cross extent of the bulge.
+func CrossExtent(z []complex128, dirRad float64) float64 {
+	if len(z) == 0 {
+		return 0
+	}
+	s, c := math.Sincos(dirRad)
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, v := range z {
+		p := -s*real(v) + c*imag(v)
+		lo, hi = math.Min(lo, p), math.Max(hi, p)
+	}
+	return hi - lo
+}
