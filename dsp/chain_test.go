@@ -194,3 +194,24 @@ func FuzzParseChain(f *testing.F) {
 		}
 	})
 }
+
+func TestDocumentedChainParses(t *testing.T) {
+	t.Parallel()
+	// The example of docs/processing-chain.md.
+	c, err := LoadChain("../testdata/dsp/bobbin-chain.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(c.Steps) != 7 || c.CoilLengthM != 0.004 {
+		t.Errorf("parsed %d steps, coil length %v", len(c.Steps), c.CoilLengthM)
+	}
+	doc, err := os.ReadFile("../docs/processing-chain.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, op := range stepOps {
+		if !strings.Contains(string(doc), "| `"+op+"` |") {
+			t.Errorf("operation %q is not documented in docs/processing-chain.md", op)
+		}
+	}
+}

@@ -166,3 +166,31 @@ func TestDemoRawRecords(t *testing.T) {
 		}
 	}
 }
+
+// TestDemoDocumentedChain applies the example chain of
+// docs/processing-chain.md to a demo calibration scan.
+func TestDemoDocumentedChain(t *testing.T) {
+	t.Parallel()
+	g, err := synth.New(synth.Demo())
+	if err != nil {
+		t.Fatal(err)
+	}
+	raw, err := g.CalibrationScan(1, false)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, err := dsp.LoadChain("../testdata/dsp/bobbin-chain.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, warns, err := c.ApplyWarn(raw)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(warns) != 0 || s.AxialStepM != 0.0008 || len(s.Meta.Extra["chain_sha256"]) != 64 {
+		t.Errorf("warnings %q, step %v, hash %q", warns, s.AxialStepM, s.Meta.Extra["chain_sha256"])
+	}
+	if v := dsp.Vpp(s.Channel("400k-diff").Samples[100:160]); math.Abs(v-4) > 1e-9 {
+		t.Errorf("span: Vpp %v over 100:160, want 4 V", v)
+	}
+}

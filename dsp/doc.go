@@ -59,6 +59,24 @@
 // onto positive frequencies: it integrates to the variance of X plus the
 // variance of Y.
 //
+// Lock-in demodulation (Demodulate) of simultaneous tones is two zero-phase
+// stages: a centred B-spline (four boxcars, CIC response) decimator whose
+// nulls sit on every multiple of the intermediate rate, then the
+// Butterworth low-pass run forwards and backwards at that rate; output
+// samples are centred on input samples (no delay). Time-multiplexed records
+// give one Blackman–Harris-weighted lock-in value per slot after the
+// settling time, interpolated onto the centre of each cycle. Channels are
+// named "<kHz>k-<coil>", for example "400k-diff" (ChannelLabel).
+//
+// Concurrency. Functions here keep no package state; a FiltFilter or
+// demodulator is not safe for concurrent use, everything else is.
+// DemodOptions.Workers demodulates tones concurrently. WelchPSD calls
+// github.com/mjibson/go-dsp, whose FFT keeps package-level twiddle-factor
+// caches guarded by sync.RWMutex (fft/radix2.go, fft/bluestein.go at the
+// pinned version), so concurrent calls are safe; a test runs them
+// concurrently under the race detector. Each distinct segment length adds
+// one cached table for the life of the process.
+//
 // Mixing. A mix subtracts from a primary channel z1 the least-squares
 // image of one or two other channels over training windows (see TrainMix):
 // affine form m = z1 − Σ(α_k z_k + β_k conj(z_k)) − c, rotate-and-scale form
