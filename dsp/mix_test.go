@@ -206,6 +206,17 @@ func TestVpp(t *testing.T) {
 	if got := Vpp([]complex128{1, 1, 1}); got != 0 {
 		t.Errorf("Vpp of repeated point = %v, want 0", got)
 	}
+	// Independent oracle: the all-pairs maximum distance (dsptest.Vpp).
+	rnd := rand.New(rand.NewPCG(3, 4))
+	for _, n := range []int{2, 3, 10, 500} {
+		pts := make([]complex128, n)
+		for i := range pts {
+			pts[i] = complex(rnd.NormFloat64(), 0.3*rnd.NormFloat64())
+		}
+		if got, want := Vpp(pts), dsptest.Vpp(pts); got != want {
+			t.Errorf("%d points: hull Vpp %v, all-pairs %v", len(pts), got, want)
+		}
+	}
 }
 
 func FuzzParseMix(f *testing.F) {
