@@ -13,16 +13,16 @@ import (
 // calibration standard.
 type TubeSpec struct {
 	// Alloy names the tube material, for example "Alloy 690TT".
-	Alloy string
+	Alloy string `json:"alloy"`
 	// OuterDiameterM is the tube outside diameter in metres.
-	OuterDiameterM float64
+	OuterDiameterM float64 `json:"outer_diameter_m"`
 	// WallM is the nominal wall thickness in metres.
-	WallM float64
+	WallM float64 `json:"wall_m"`
 	// ConductivitySPerM is the electrical conductivity in S/m.
-	ConductivitySPerM float64
+	ConductivitySPerM float64 `json:"conductivity_s_per_m"`
 	// RelPermeability is the relative magnetic permeability (1 for the
 	// non-magnetic alloys the generator is meant for).
-	RelPermeability float64
+	RelPermeability float64 `json:"rel_permeability"`
 }
 
 // Config describes one invented inspection: the component, its tubes and
@@ -36,81 +36,81 @@ type TubeSpec struct {
 type Config struct {
 	// Seed selects the random realisation; the same Seed and Config give
 	// identical data.
-	Seed uint64
+	Seed uint64 `json:"seed"`
 	// Plant names the invented plant and unit.
-	Plant string
+	Plant string `json:"plant"`
 	// Component names the heat exchanger; tube identifiers are unique
 	// within it.
-	Component string
+	Component string `json:"component"`
 	// Procedure is the examination procedure reference and revision
 	// written into every scan.
-	Procedure string
+	Procedure string `json:"procedure"`
 	// ProbeID is the bobbin probe's serial.
-	ProbeID string
+	ProbeID string `json:"probe_id"`
 	// Tubes is the number of tubes in the bundle.
-	Tubes int
+	Tubes int `json:"tubes"`
 	// Tube is the tube size and material.
-	Tube TubeSpec
+	Tube TubeSpec `json:"tube"`
 	// LengthM is the tube length from end to end.
-	LengthM float64
+	LengthM float64 `json:"length_m"`
 	// SupportsM are the support-plate centres, increasing, strictly
 	// between the tubesheets.
-	SupportsM []float64
+	SupportsM []float64 `json:"supports_m"`
 	// SupportThicknessM is the support-plate thickness.
-	SupportThicknessM float64
+	SupportThicknessM float64 `json:"support_thickness_m"`
 	// TubesheetM is the thickness of each of the two tubesheets; the
 	// tube is expanded into it up to ExpansionGapM short of its face.
-	TubesheetM float64
+	TubesheetM float64 `json:"tubesheet_m"`
 	// ExpansionGapM is the distance from the expansion (roll) transition
 	// to the tubesheet's secondary face.
-	ExpansionGapM float64
+	ExpansionGapM float64 `json:"expansion_gap_m"`
 	// FreqsHz are the excitation frequencies, highest first. FreqsHz[0]
 	// is the prime (detection and phase sizing), FreqsHz[MixIndex] the
 	// support-mix partner and the last the landmark (low) frequency.
-	FreqsHz []float64
+	FreqsHz []float64 `json:"freqs_hz"`
 	// MixIndex is the index in FreqsHz of the support-mix partner.
-	MixIndex int
+	MixIndex int `json:"mix_index"`
 	// SamplesPerM is the axial sampling density (samples per metre).
-	SamplesPerM float64
+	SamplesPerM float64 `json:"samples_per_m"`
 	// ProbeSpeedMPS is the nominal pull speed in m/s.
-	ProbeSpeedMPS float64
+	ProbeSpeedMPS float64 `json:"probe_speed_mps"`
 	// SpeedVariation is the peak fractional variation of the pull speed
 	// along a pull (0.1 = ±10 %).
-	SpeedVariation float64
+	SpeedVariation float64 `json:"speed_variation"`
 	// CoilLengthM is the effective axial length of each coil's response
 	// (full width at half maximum of its Gaussian sensitivity).
-	CoilLengthM float64
+	CoilLengthM float64 `json:"coil_length_m"`
 	// CoilSpacingM is the axial distance between the two coils of the
 	// differential pair.
-	CoilSpacingM float64
+	CoilSpacingM float64 `json:"coil_spacing_m"`
 	// NoiseV is the root-mean-square white noise on each differential
 	// channel in normalised volts (absolute channels get 1.5 times this,
 	// plus 1/f noise, wobble and drift).
-	NoiseV float64
+	NoiseV float64 `json:"noise_v"`
 	// Groups is the number of calibration groups; the tubes are split
 	// into Groups consecutive runs of nearly equal size.
-	Groups int
+	Groups int `json:"groups"`
 	// DriftedGroup is the index of the calibration group whose closing
 	// calibration has drifted beyond tolerance (DriftDeg and DriftGain),
 	// or -1 for none.
-	DriftedGroup int
+	DriftedGroup int `json:"drifted_group"`
 	// DriftDeg is the phase drift of DriftedGroup's closing calibration
 	// in degrees on every channel (counter-clockwise positive); the tubes
 	// of the group drift linearly towards it.
-	DriftDeg float64
+	DriftDeg float64 `json:"drift_deg"`
 	// DriftGain is the gain factor of DriftedGroup's closing
 	// calibration relative to its opening (1.12 = 12 % high).
-	DriftGain float64
+	DriftGain float64 `json:"drift_gain"`
 	// FlawRate scales the per-tube probability of every condition (1 =
 	// the documented rates).
-	FlawRate float64
+	FlawRate float64 `json:"flaw_rate"`
 	// Start is the start of the first opening calibration.
-	Start time.Time
+	Start time.Time `json:"start"`
 	// Raw is the number of raw coil-voltage recordings.
-	Raw int
+	Raw int `json:"raw"`
 	// RawSampleRateHz is the ADC sample rate of the raw recordings; it
 	// must exceed twice the highest frequency.
-	RawSampleRateHz float64
+	RawSampleRateHz float64 `json:"raw_sample_rate_hz"`
 }
 
 // Demo returns the main demo inspection: 288 straight Alloy 690TT tubes of

@@ -34,14 +34,16 @@ const (
 type Landmark struct {
 	// Name is "end-B", "tubesheet-B", "expansion-B", "support-1" … in
 	// increasing position, "expansion-A", "tubesheet-A", "end-A".
-	Name string
+	Name string `json:"name"`
 	// Kind is "tube-end", "tubesheet", "expansion-transition" or "support".
-	Kind string
+	Kind string `json:"kind"`
 	// StartM and EndM bound the feature along the tube (equal for a
 	// tube end or a transition); CentreM is their mean.
-	StartM, EndM, CentreM float64
+	StartM  float64 `json:"start_m"`
+	EndM    float64 `json:"end_m"`
+	CentreM float64 `json:"centre_m"`
 	// Support is the index into Config.SupportsM, or −1.
-	Support int
+	Support int `json:"support"`
 }
 
 // setting is one channel's instrument state: the gain and rotation the
