@@ -2,8 +2,10 @@ package main
 
 import (
 	"encoding/json"
+	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -189,5 +191,87 @@ func TestAdviseCommand(t *testing.T) {
 	}
 	if code != 0 || json.Unmarshal([]byte(stdout), &a) != nil || a.Rm < 3.5 || a.Rm > 3.7 || len(a.Warnings) == 0 {
 		t.Errorf("copper bar at 5 m/s: exit %d, %s", code, stdout)
+	}
+}
+
+// TestConductivityOnTestdata runs the commands on the committed demo
+// survey (testdata/conductivity) and compares every spot with the ground
+// truth: within four reported standard uncertainties, and within
+// ±1.0 %IACS (MIL-STD-1537C instrument accuracy for aluminium alloys) or
+// ±max(10 %, 2.5 µm) (ASTM E376 Note 2) where 3u is inside those targets.
+func TestConductivityOnTestdata(t *testing.T) {
+	t.Parallel()
+	td := filepath.Join("..", "..", "testdata", "conductivity")
+	p := func(n string) string { return filepath.Join(td, n) }
+	truth := map[string][]string{}
+	tb, err := os.ReadFile(p("survey-truth.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, line := range strings.Split(strings.TrimSpace(string(tb)), "\n")[1:] {
+		f := strings.Split(line, ",")
+		truth[f[1]] = f
+	}
+	num := func(s string) float64 {
+		v, err := strconv.ParseFloat(s, 64)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return v
+	}
+	dir := t.TempDir()
+	for _, c := range []struct {
+		kind, cal, readings string
+	}{
+		{"conductivity", "conductivity-calibration.csv", "conductivity-readings.csv"},
+		{"coating", "coating-calibration.csv", "coating-readings.csv"},
+	} {
+		setup := filepath.Join(dir, c.kind+".json")
+		code, stdout, stderr := runCmd(t, c.kind, "calibrate", "--probe", p("probe.json"), "--blocks", p("blocks.csv"), "--shims", p("shims.csv"), "--readings", p(c.cal), "-o", setup)
+		if code != 0 {
+			t.Fatalf("%s calibrate: exit %d\n%s%s", c.kind, code, stdout, stderr)
+		}
+		code, stdout, stderr = runCmd(t, c.kind, "measure", "--setup", setup, "--json", p(c.readings))
+		if code != 0 {
+			t.Fatalf("%s measure: exit %d\n%s%s", c.kind, code, stdout, stderr)
+		}
+		var res struct {
+			Results []struct {
+				Spot    string   `json:"spot"`
+				Lift    float64  `json:"liftoff_um"`
+				ULift   float64  `json:"u_liftoff_um"`
+				IACS20  *float64 `json:"conductivity_20c_pct_iacs"`
+				UIACS20 *float64 `json:"u_conductivity_20c_pct_iacs"`
+			} `json:"results"`
+		}
+		if err := json.Unmarshal([]byte(stdout), &res); err != nil {
+			t.Fatal(err)
+		}
+		if len(res.Results) == 0 {
+			t.Fatalf("%s: no results", c.kind)
+		}
+		for _, r := range res.Results {
+			tr := truth[r.Spot]
+			if tr == nil {
+				t.Fatalf("%s: no truth", r.Spot)
+			}
+			if c.kind == "conductivity" {
+				want := num(tr[2])
+				if r.IACS20 == nil || r.UIACS20 == nil {
+					t.Errorf("%s: no corrected conductivity", r.Spot)
+					continue
+				}
+				d, u := math.Abs(*r.IACS20-want), *r.UIACS20
+				if d > 4*u || (3*u <= 1.0 && d > 1.0) {
+					t.Errorf("%s: %.3f ± %.3f %%IACS at 20 °C, truth %.3f", r.Spot, *r.IACS20, u, want)
+				}
+				continue
+			}
+			want := num(tr[4])
+			tol := math.Max(0.1*want, 2.5)
+			if d := math.Abs(r.Lift - want); d > 4*r.ULift || (3*r.ULift <= tol && d > tol) {
+				t.Errorf("%s: coating %.2f ± %.2f µm, truth %.2f", r.Spot, r.Lift, r.ULift, want)
+			}
+		}
 	}
 }
