@@ -195,51 +195,27 @@ type column struct {
 // with "…" and stays complete in the CSV and JSON exports).
 func (p *pdfw) table(cols []column, rows [][]string) {
 	const lh, size = 3.6, 7.5
-	drawHeader := func() {
-		p.font("B", size)
-		p.f.SetFillColor(225, 230, 238)
-		x, y := marginL, p.f.GetY()
-		hdr := make([][]string, len(cols))
-		n := 1
-		for i, c := range cols {
-			hdr[i] = p.f.SplitText(c.title, c.w)
-			n = max(n, len(hdr[i]))
-		}
-		h := float64(n)*lh + 1.2
-		for i, c := range cols {
-			p.f.Rect(x, y, c.w, h, "FD")
-			for j, l := range hdr[i] {
-				p.f.SetXY(x, y+0.6+float64(j)*lh)
-				p.f.CellFormat(c.w, lh, l, "", 0, c.align, false, 0, "")
-			}
-			x += c.w
-		}
-		p.f.SetXY(marginL, y+h)
-	}
-	p.ensure(3 * lh * 2)
-	drawHeader()
-	for _, r := range rows {
-		p.font("", size)
+	// split wraps each cell of r in its column: the lines and the row height.
+	split := func(r []string, clean bool) ([][]string, float64) {
 		cells := make([][]string, len(cols))
 		n := 1
 		for i, c := range cols {
 			txt := ""
 			if i < len(r) {
-				txt = pdfText(r[i], true)
+				txt = r[i]
 			}
-			lines := clipLines(p.f.SplitText(txt, c.w), maxCellLns)
-			cells[i] = lines
-			n = max(n, len(lines))
+			if clean {
+				txt = pdfText(txt, true)
+			}
+			cells[i] = clipLines(p.f.SplitText(txt, c.w), maxCellLns)
+			n = max(n, len(cells[i]))
 		}
-		h := float64(n)*lh + 1.2
-		if p.f.GetY()+h > pageH-marginBot {
-			p.f.AddPage()
-			drawHeader()
-			p.font("", size)
-		}
+		return cells, float64(n)*lh + 1.2
+	}
+	draw := func(cells [][]string, h float64, style string) {
 		x, y := marginL, p.f.GetY()
 		for i, c := range cols {
-			p.f.Rect(x, y, c.w, h, "D")
+			p.f.Rect(x, y, c.w, h, style)
 			for j, l := range cells[i] {
 				p.f.SetXY(x, y+0.6+float64(j)*lh)
 				p.f.CellFormat(c.w, lh, l, "", 0, c.align, false, 0, "")
@@ -247,6 +223,27 @@ func (p *pdfw) table(cols []column, rows [][]string) {
 			x += c.w
 		}
 		p.f.SetXY(marginL, y+h)
+	}
+	titles := make([]string, len(cols))
+	for i, c := range cols {
+		titles[i] = c.title
+	}
+	drawHeader := func() {
+		p.font("B", size)
+		p.f.SetFillColor(225, 230, 238)
+		cells, h := split(titles, false)
+		draw(cells, h, "FD")
+		p.font("", size)
+	}
+	p.ensure(3 * lh * 2)
+	drawHeader()
+	for _, r := range rows {
+		cells, h := split(r, true)
+		if p.f.GetY()+h > pageH-marginBot {
+			p.f.AddPage()
+			drawHeader()
+		}
+		draw(cells, h, "D")
 	}
 	p.f.Ln(2)
 }

@@ -10,7 +10,6 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"slices"
 	"time"
 )
 
@@ -18,6 +17,37 @@ import (
 type querier interface {
 	QueryContext(ctx context.Context, query string, args ...any) (*sql.Rows, error)
 	QueryRowContext(ctx context.Context, query string, args ...any) *sql.Row
+}
+
+// scanner is a *sql.Row or *sql.Rows.
+type scanner interface{ Scan(...any) error }
+
+// queryAll runs query and scans every row with scan.
+func queryAll[T any](ctx context.Context, q querier, scan func(scanner) (T, error), query string, args ...any) ([]T, error) {
+	rows, err := q.QueryContext(ctx, query, args...)
+	if err != nil {
+		return nil, err
+	}
+	defer rows.Close()
+	var out []T
+	for rows.Next() {
+		v, err := scan(rows)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, v)
+	}
+	return out, rows.Err()
+}
+
+// queryOne runs query for one row; no row gives an error wrapping
+// ErrNotFound that names what.
+func queryOne[T any](ctx context.Context, q querier, scan func(scanner) (T, error), what, query string, args ...any) (T, error) {
+	v, err := scan(q.QueryRowContext(ctx, query, args...))
+	if errors.Is(err, sql.ErrNoRows) {
+		return v, fmt.Errorf("%s: %w", what, ErrNotFound)
+	}
+	return v, err
 }
 
 func parseTime(s string) (time.Time, error) {
@@ -50,7 +80,9 @@ func absent(ctx context.Context, q querier, tbl, col, val, what string) error {
 	return nil
 }
 
-func fileDigest(path string) (int64, string, error) {
+// FileDigest returns the size and lower-case hex SHA-256 of the file at
+// path, opened read-only, for Scan.SizeBytes and Scan.SHA256.
+func FileDigest(path string) (int64, string, error) {
 	f, err := os.Open(path)
 	if err != nil {
 		return 0, "", err
@@ -86,7 +118,7 @@ func (s *Store) Inspection(ctx context.Context) (Inspection, error) { return ins
 
 const personCols = "name, role, cert_level, cert_expiry, version, recorded_at, recorded_by"
 
-func scanPerson(sc interface{ Scan(...any) error }) (Person, error) {
+func scanPerson(sc scanner) (Person, error) {
 	var p Person
 	var role, at string
 	if err := sc.Scan(&p.Name, &role, &p.CertLevel, &p.CertExpiry, &p.Version, &at, &p.By); err != nil {
@@ -99,32 +131,16 @@ func scanPerson(sc interface{ Scan(...any) error }) (Person, error) {
 }
 
 func latestPerson(ctx context.Context, q querier, name string) (Person, error) {
-	p, err := scanPerson(q.QueryRowContext(ctx, "SELECT "+personCols+" FROM people WHERE name = ? ORDER BY version DESC LIMIT 1", name))
-	if errors.Is(err, sql.ErrNoRows) {
-		return p, fmt.Errorf("person %s: %w", quote(name), ErrNotFound)
-	}
-	return p, err
+	return queryOne(ctx, q, scanPerson, "person "+quote(name),
+		"SELECT "+personCols+" FROM people WHERE name = ? ORDER BY version DESC LIMIT 1", name)
 }
 
 // People returns the newest version of every registered person, in order
 // of first registration.
 func (s *Store) People(ctx context.Context) ([]Person, error) {
-	rows, err := s.db.QueryContext(ctx, "SELECT "+personCols+` FROM people p WHERE version =
+	return queryAll(ctx, s.db, scanPerson, "SELECT "+personCols+` FROM people p WHERE version =
 		(SELECT max(version) FROM people WHERE name = p.name)
 		ORDER BY (SELECT min(seq) FROM people WHERE name = p.name)`)
-	if err != nil {
-		return nil, err
-	}
-	defer rows.Close()
-	var out []Person
-	for rows.Next() {
-		p, err := scanPerson(rows)
-		if err != nil {
-			return nil, err
-		}
-		out = append(out, p)
-	}
-	return out, rows.Err()
 }
 
 const componentQuery = `SELECT c.component_id, c.row_no, c.col_no, c.label,
@@ -133,7 +149,7 @@ const componentQuery = `SELECT c.component_id, c.row_no, c.col_no, c.label,
 	FROM components c LEFT JOIN component_status s ON s.seq =
 		(SELECT max(seq) FROM component_status WHERE component_id = c.component_id)`
 
-func scanComponent(sc interface{ Scan(...any) error }) (Component, error) {
+func scanComponent(sc scanner) (Component, error) {
 	var c Component
 	var st, at string
 	if err := sc.Scan(&c.ID, &c.Row, &c.Column, &c.Label, &st, &c.Reason, &at, &c.StatusBy, &c.scanID); err != nil {
@@ -150,30 +166,13 @@ func scanComponent(sc interface{ Scan(...any) error }) (Component, error) {
 }
 
 func component(ctx context.Context, q querier, id string) (Component, error) {
-	c, err := scanComponent(q.QueryRowContext(ctx, componentQuery+" WHERE c.component_id = ?", id))
-	if errors.Is(err, sql.ErrNoRows) {
-		return c, fmt.Errorf("component %s: %w", quote(id), ErrNotFound)
-	}
-	return c, err
+	return queryOne(ctx, q, scanComponent, "component "+quote(id), componentQuery+" WHERE c.component_id = ?", id)
 }
 
 // Components returns every registered component with its current status,
 // in order of registration.
 func (s *Store) Components(ctx context.Context) ([]Component, error) {
-	rows, err := s.db.QueryContext(ctx, componentQuery+" ORDER BY c.seq")
-	if err != nil {
-		return nil, err
-	}
-	defer rows.Close()
-	var out []Component
-	for rows.Next() {
-		c, err := scanComponent(rows)
-		if err != nil {
-			return nil, err
-		}
-		out = append(out, c)
-	}
-	return out, rows.Err()
+	return queryAll(ctx, s.db, scanComponent, componentQuery+" ORDER BY c.seq")
 }
 
 // Component returns one component with its current status.
@@ -194,68 +193,48 @@ func (s *Store) IsRecorded(ctx context.Context, componentID string) (bool, error
 // componentsExaminedInGroup lists, sorted, the components whose current
 // status is examined from a scan in calibration group g.
 func componentsExaminedInGroup(ctx context.Context, q querier, g string) ([]string, error) {
-	rows, err := q.QueryContext(ctx, `SELECT c.component_id FROM components c
+	out, err := queryAll(ctx, q, scanString, `SELECT c.component_id FROM components c
 		JOIN component_status s ON s.seq = (SELECT max(seq) FROM component_status WHERE component_id = c.component_id)
 		JOIN scans sc ON sc.scan_id = s.scan_id
 		WHERE s.status = ? AND sc.cal_group = ? ORDER BY c.component_id`, string(StatusExamined), g)
-	if err != nil {
-		return nil, err
+	if out == nil {
+		out = []string{}
 	}
-	defer rows.Close()
-	out := []string{}
-	for rows.Next() {
-		var id string
-		if err := rows.Scan(&id); err != nil {
-			return nil, err
-		}
-		out = append(out, id)
-	}
-	return out, rows.Err()
+	return out, err
+}
+
+func scanString(sc scanner) (string, error) {
+	var v string
+	err := sc.Scan(&v)
+	return v, err
 }
 
 // Scans returns every recorded scan in order of recording.
 func (s *Store) Scans(ctx context.Context) ([]Scan, error) {
-	rows, err := s.db.QueryContext(ctx, `SELECT scan_id, component_id, path, size_bytes, sha256, cal_group,
-		recorded_at, recorded_by FROM scans ORDER BY seq`)
-	if err != nil {
-		return nil, err
-	}
-	defer rows.Close()
-	var out []Scan
-	for rows.Next() {
+	return queryAll(ctx, s.db, func(r scanner) (Scan, error) {
 		var sc Scan
 		var at string
-		if err := rows.Scan(&sc.ID, &sc.Component, &sc.Path, &sc.SizeBytes, &sc.SHA256, &sc.CalGroup, &at, &sc.By); err != nil {
-			return nil, err
+		if err := r.Scan(&sc.ID, &sc.Component, &sc.Path, &sc.SizeBytes, &sc.SHA256, &sc.CalGroup, &at, &sc.By); err != nil {
+			return sc, err
 		}
-		if sc.At, err = parseTime(at); err != nil {
-			return nil, err
-		}
-		out = append(out, sc)
-	}
-	return out, rows.Err()
+		var err error
+		sc.At, err = parseTime(at)
+		return sc, err
+	}, `SELECT scan_id, component_id, path, size_bytes, sha256, cal_group, recorded_at, recorded_by FROM scans ORDER BY seq`)
 }
 
 func (s *Store) documents(ctx context.Context, t *table) ([]Document, error) {
-	rows, err := s.db.QueryContext(ctx, "SELECT "+t.cols[0]+", body, sha256, recorded_at, recorded_by FROM "+t.name+" ORDER BY seq")
-	if err != nil {
-		return nil, err
-	}
-	defer rows.Close()
-	var out []Document
-	for rows.Next() {
+	return queryAll(ctx, s.db, func(r scanner) (Document, error) {
 		var d Document
 		var body, at string
-		if err := rows.Scan(&d.ID, &body, &d.SHA256, &at, &d.By); err != nil {
-			return nil, err
+		if err := r.Scan(&d.ID, &body, &d.SHA256, &at, &d.By); err != nil {
+			return d, err
 		}
 		d.Body = json.RawMessage(body)
-		if d.At, err = parseTime(at); err != nil {
-			return nil, err
-		}
-		out = append(out, d)
-	}
-	return out, rows.Err()
+		var err error
+		d.At, err = parseTime(at)
+		return d, err
+	}, "SELECT "+t.cols[0]+", body, sha256, recorded_at, recorded_by FROM "+t.name+" ORDER BY seq")
 }
 
 // Chains returns every recorded processing chain in order of recording.
@@ -270,7 +249,7 @@ const calQuery = `SELECT c.cal_id, c.version, c.body, c.sha256, c.standard, c.no
 	coalesce(a.recorded_by, ''), coalesce(a.recorded_at, '')
 	FROM calibrations c LEFT JOIN approvals a ON a.cal_id = c.cal_id AND a.version = c.version`
 
-func scanCal(sc interface{ Scan(...any) error }) (Calibration, error) {
+func scanCal(sc scanner) (Calibration, error) {
 	var c Calibration
 	var body, built, approved string
 	if err := sc.Scan(&c.ID, &c.Version, &body, &c.SHA256, &c.Standard, &c.Note, &c.Builder, &built, &c.Approver, &approved); err != nil {
@@ -292,30 +271,14 @@ func scanCal(sc interface{ Scan(...any) error }) (Calibration, error) {
 }
 
 func calibration(ctx context.Context, q querier, id string, version int) (Calibration, error) {
-	c, err := scanCal(q.QueryRowContext(ctx, calQuery+" WHERE c.cal_id = ? AND c.version = ?", id, version))
-	if errors.Is(err, sql.ErrNoRows) {
-		return c, fmt.Errorf("calibration %s version %d: %w", quote(id), version, ErrNotFound)
-	}
-	return c, err
+	return queryOne(ctx, q, scanCal, fmt.Sprintf("calibration %s version %d", quote(id), version),
+		calQuery+" WHERE c.cal_id = ? AND c.version = ?", id, version)
 }
 
 // Calibrations returns every version of every calibration, in order of
 // recording, with its approval state.
 func (s *Store) Calibrations(ctx context.Context) ([]Calibration, error) {
-	rows, err := s.db.QueryContext(ctx, calQuery+" ORDER BY c.seq")
-	if err != nil {
-		return nil, err
-	}
-	defer rows.Close()
-	var out []Calibration
-	for rows.Next() {
-		c, err := scanCal(rows)
-		if err != nil {
-			return nil, err
-		}
-		out = append(out, c)
-	}
-	return out, rows.Err()
+	return queryAll(ctx, s.db, scanCal, calQuery+" ORDER BY c.seq")
 }
 
 // Calibration returns one calibration version with its approval state.
@@ -325,41 +288,33 @@ func (s *Store) Calibration(ctx context.Context, id string, version int) (Calibr
 
 // GroupChecks returns every calibration-group check in order of recording.
 func (s *Store) GroupChecks(ctx context.Context) ([]GroupCheck, error) {
-	rows, err := s.db.QueryContext(ctx, `SELECT group_id, check_no, cal_id, cal_version, valid, checks, retest, reason,
-		recorded_at, recorded_by FROM group_checks ORDER BY seq`)
-	if err != nil {
-		return nil, err
-	}
-	defer rows.Close()
-	var out []GroupCheck
-	for rows.Next() {
+	return queryAll(ctx, s.db, func(r scanner) (GroupCheck, error) {
 		var g GroupCheck
 		var valid int
 		var checks, retest, at string
-		if err := rows.Scan(&g.Group, &g.Check, &g.CalibrationID, &g.CalibrationVersion, &valid, &checks, &retest,
+		if err := r.Scan(&g.Group, &g.Check, &g.CalibrationID, &g.CalibrationVersion, &valid, &checks, &retest,
 			&g.Reason, &at, &g.By); err != nil {
-			return nil, err
+			return g, err
 		}
 		g.Valid = valid != 0
 		if err := json.Unmarshal([]byte(checks), &g.Checks); err != nil {
-			return nil, fmt.Errorf("group %s check %d: stored checks: %w", quote(g.Group), g.Check, err)
+			return g, fmt.Errorf("group %s check %d: stored checks: %w", quote(g.Group), g.Check, err)
 		}
 		if err := json.Unmarshal([]byte(retest), &g.Retest); err != nil {
-			return nil, fmt.Errorf("group %s check %d: stored re-test list: %w", quote(g.Group), g.Check, err)
+			return g, fmt.Errorf("group %s check %d: stored re-test list: %w", quote(g.Group), g.Check, err)
 		}
-		if g.At, err = parseTime(at); err != nil {
-			return nil, err
-		}
-		out = append(out, g)
-	}
-	return out, rows.Err()
+		var err error
+		g.At, err = parseTime(at)
+		return g, err
+	}, `SELECT group_id, check_no, cal_id, cal_version, valid, checks, retest, reason,
+		recorded_at, recorded_by FROM group_checks ORDER BY seq`)
 }
 
 const indQuery = `SELECT ind_id, scan_id, component_id, channel, start_sample, end_sample, axial_m, location,
 	vpp_v, phase_rad, depth_pct, uncertainty_pct, class, method, source, curve_id, curve_version, status, comment,
 	recorded_at, recorded_by, recorded_role FROM indications`
 
-func scanInd(sc interface{ Scan(...any) error }) (Indication, error) {
+func scanInd(sc scanner) (Indication, error) {
 	var d Indication
 	var depth, unc sql.NullFloat64
 	var src, st, at, role string
@@ -391,7 +346,7 @@ func applyCall(d *Indication, c Call) {
 
 const callQuery = `SELECT ind_id, version, kind, status, class, comment, reason, recorded_at, recorded_by, recorded_role FROM calls`
 
-func scanCall(sc interface{ Scan(...any) error }) (Call, error) {
+func scanCall(sc scanner) (Call, error) {
 	var c Call
 	var kind, st, at, role string
 	if err := sc.Scan(&c.Indication, &c.Version, &kind, &st, &c.Class, &c.Comment, &c.Reason, &at, &c.By, &role); err != nil {
@@ -404,10 +359,7 @@ func scanCall(sc interface{ Scan(...any) error }) (Call, error) {
 }
 
 func indication(ctx context.Context, q querier, id string) (Indication, error) {
-	d, err := scanInd(q.QueryRowContext(ctx, indQuery+" WHERE ind_id = ?", id))
-	if errors.Is(err, sql.ErrNoRows) {
-		return d, fmt.Errorf("indication %s: %w", quote(id), ErrNotFound)
-	}
+	d, err := queryOne(ctx, q, scanInd, "indication "+quote(id), indQuery+" WHERE ind_id = ?", id)
 	if err != nil {
 		return d, err
 	}
@@ -424,28 +376,14 @@ func indication(ctx context.Context, q querier, id string) (Indication, error) {
 // callHistory returns every call version on indication id, the first
 // (initial) one taken from the indication row.
 func callHistory(ctx context.Context, q querier, id string) ([]Call, error) {
-	d, err := scanInd(q.QueryRowContext(ctx, indQuery+" WHERE ind_id = ?", id))
-	if errors.Is(err, sql.ErrNoRows) {
-		return nil, fmt.Errorf("indication %s: %w", quote(id), ErrNotFound)
-	}
+	d, err := queryOne(ctx, q, scanInd, "indication "+quote(id), indQuery+" WHERE ind_id = ?", id)
 	if err != nil {
 		return nil, err
 	}
 	out := []Call{{Indication: id, Version: 1, Kind: KindInitial, Status: d.Status, Class: d.Class, Comment: d.Comment,
 		By: d.CalledBy, Role: d.CalledRole, At: d.CalledAt}}
-	rows, err := q.QueryContext(ctx, callQuery+" WHERE ind_id = ? ORDER BY version", id)
-	if err != nil {
-		return nil, err
-	}
-	defer rows.Close()
-	for rows.Next() {
-		c, err := scanCall(rows)
-		if err != nil {
-			return nil, err
-		}
-		out = append(out, c)
-	}
-	return out, rows.Err()
+	later, err := queryAll(ctx, q, scanCall, callQuery+" WHERE ind_id = ? ORDER BY version", id)
+	return append(out, later...), err
 }
 
 // Indication returns one indication with its current call.
@@ -463,81 +401,51 @@ func (s *Store) Calls(ctx context.Context, indID string) ([]Call, error) {
 // when componentID is empty) with their current calls, in order of
 // recording.
 func (s *Store) Indications(ctx context.Context, componentID string) ([]Indication, error) {
-	var rows *sql.Rows
-	var err error
-	if componentID == "" {
-		rows, err = s.db.QueryContext(ctx, indQuery+" ORDER BY seq")
-	} else {
-		rows, err = s.db.QueryContext(ctx, indQuery+" WHERE component_id = ? ORDER BY seq", componentID)
+	indSQL, callSQL, args := indQuery+" ORDER BY seq", callQuery+" ORDER BY seq", []any{}
+	if componentID != "" {
+		indSQL = indQuery + " WHERE component_id = ? ORDER BY seq"
+		callSQL = callQuery + " WHERE ind_id IN (SELECT ind_id FROM indications WHERE component_id = ?) ORDER BY seq"
+		args = []any{componentID}
 	}
+	out, err := queryAll(ctx, s.db, scanInd, indSQL, args...)
 	if err != nil {
 		return nil, err
 	}
-	var out []Indication
-	index := map[string]int{}
-	for rows.Next() {
-		d, err := scanInd(rows)
-		if err != nil {
-			rows.Close()
-			return nil, err
-		}
-		index[d.ID] = len(out)
-		out = append(out, d)
-	}
-	if err := rows.Close(); err != nil {
-		return nil, err
-	}
-	if err := rows.Err(); err != nil {
-		return nil, err
-	}
-	if componentID == "" {
-		rows, err = s.db.QueryContext(ctx, callQuery+" ORDER BY seq")
-	} else {
-		rows, err = s.db.QueryContext(ctx, callQuery+" WHERE ind_id IN (SELECT ind_id FROM indications WHERE component_id = ?) ORDER BY seq", componentID)
-	}
+	calls, err := queryAll(ctx, s.db, scanCall, callSQL, args...)
 	if err != nil {
 		return nil, err
 	}
-	defer rows.Close()
-	for rows.Next() {
-		c, err := scanCall(rows)
-		if err != nil {
-			return nil, err
-		}
+	index := make(map[string]int, len(out))
+	for i, d := range out {
+		index[d.ID] = i
+	}
+	for _, c := range calls {
 		if i, ok := index[c.Indication]; ok {
 			applyCall(&out[i], c)
 		}
 	}
-	return out, rows.Err()
+	return out, nil
 }
 
 // Releases returns every report release in order.
 func (s *Store) Releases(ctx context.Context) ([]Release, error) {
-	rows, err := s.db.QueryContext(ctx, "SELECT report_id, head_seq, head_hash, note, recorded_at, recorded_by FROM releases ORDER BY seq")
-	if err != nil {
-		return nil, err
-	}
-	defer rows.Close()
-	var out []Release
-	for rows.Next() {
+	return queryAll(ctx, s.db, func(sc scanner) (Release, error) {
 		var r Release
 		var at string
-		if err := rows.Scan(&r.ReportID, &r.HeadSeq, &r.HeadHash, &r.Note, &at, &r.By); err != nil {
-			return nil, err
+		if err := sc.Scan(&r.ReportID, &r.HeadSeq, &r.HeadHash, &r.Note, &at, &r.By); err != nil {
+			return r, err
 		}
-		if r.At, err = parseTime(at); err != nil {
-			return nil, err
-		}
-		out = append(out, r)
-	}
-	return out, rows.Err()
+		var err error
+		r.At, err = parseTime(at)
+		return r, err
+	}, "SELECT report_id, head_seq, head_hash, note, recorded_at, recorded_by FROM releases ORDER BY seq")
 }
 
 const eventQuery = `SELECT seq, at, actor, role, item_kind, item_id, action, before, after, reason,
 	row_table, row_seq, row_hash, prev_hash, hash FROM events`
 
 // scanEvent reads an event row; at is the stored time text.
-func scanEvent(sc interface{ Scan(...any) error }) (Event, string, error) {
+func scanEvent(sc scanner) (Event, string, error) {
 	var e Event
 	var at, role, before, after string
 	if err := sc.Scan(&e.Seq, &at, &e.Actor, &role, &e.ItemKind, &e.ItemID, &e.Action, &before, &after, &e.Reason,
@@ -553,20 +461,10 @@ func scanEvent(sc interface{ Scan(...any) error }) (Event, string, error) {
 }
 
 func (s *Store) events(ctx context.Context, where string, args ...any) ([]Event, error) {
-	rows, err := s.db.QueryContext(ctx, eventQuery+where+" ORDER BY seq", args...)
-	if err != nil {
-		return nil, err
-	}
-	defer rows.Close()
-	var out []Event
-	for rows.Next() {
-		e, _, err := scanEvent(rows)
-		if err != nil {
-			return nil, err
-		}
-		out = append(out, e)
-	}
-	return out, rows.Err()
+	return queryAll(ctx, s.db, func(sc scanner) (Event, error) {
+		e, _, err := scanEvent(sc)
+		return e, err
+	}, eventQuery+where+" ORDER BY seq", args...)
 }
 
 // Events returns the whole event log, oldest first.
@@ -587,29 +485,12 @@ type Item struct {
 
 // FindItems returns the items whose ID is id (one per kind that has it).
 func (s *Store) FindItems(ctx context.Context, id string) ([]Item, error) {
-	rows, err := s.db.QueryContext(ctx, "SELECT DISTINCT item_kind FROM events WHERE item_id = ?", id)
-	if err != nil {
-		return nil, err
+	kinds, err := queryAll(ctx, s.db, scanString, "SELECT DISTINCT item_kind FROM events WHERE item_id = ? ORDER BY item_kind", id)
+	out := make([]Item, len(kinds))
+	for i, k := range kinds {
+		out[i] = Item{Kind: k, ID: id}
 	}
-	defer rows.Close()
-	var out []Item
-	for rows.Next() {
-		var k string
-		if err := rows.Scan(&k); err != nil {
-			return nil, err
-		}
-		out = append(out, Item{Kind: k, ID: id})
-	}
-	slices.SortFunc(out, func(a, b Item) int {
-		if a.Kind < b.Kind {
-			return -1
-		}
-		if a.Kind > b.Kind {
-			return 1
-		}
-		return 0
-	})
-	return out, rows.Err()
+	return out, err
 }
 
 // Head returns the sequence number and hash of the newest event.

@@ -151,12 +151,6 @@ func (ss *Session) AddComponents(ctx context.Context, comps []Component) error {
 	})
 }
 
-// FileDigest returns the size and lower-case hex SHA-256 of the file at
-// path, opened read-only, for Scan.SizeBytes and Scan.SHA256.
-func FileDigest(path string) (int64, string, error) {
-	return fileDigest(path)
-}
-
 // AddScan records a raw scan file by path, size and SHA-256. The
 // component must be registered. Level I, II and III.
 func (ss *Session) AddScan(ctx context.Context, sc Scan) error {

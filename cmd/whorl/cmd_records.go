@@ -230,71 +230,59 @@ func resolveItem(ctx context.Context, s *store.Store, arg string) (store.Item, e
 	return store.Item{}, usagef("%q names more than one item: %s", arg, strings.Join(names, ", "))
 }
 
-// itemState returns the current state of an item as a JSON-encodable value.
+// pick returns the items of list for which match is true; with one
+// wanted it returns the first as a single value.
+func pick[T any](list []T, err error, match func(T) bool, many bool) (any, error) {
+	if err != nil {
+		return nil, err
+	}
+	var out []T
+	for _, v := range list {
+		if match(v) {
+			if !many {
+				return v, nil
+			}
+			out = append(out, v)
+		}
+	}
+	if len(out) == 0 {
+		return nil, store.ErrNotFound
+	}
+	return out, nil
+}
+
+// itemState returns the current state of an item as a JSON-encodable
+// value: for a calibration every version, for a group every check, for an
+// indication its call history too.
 func itemState(ctx context.Context, s *store.Store, it store.Item) (any, error) {
+	var v any
+	var err error
 	switch it.Kind {
 	case "inspection":
 		return s.Inspection(ctx)
-	case "person":
-		ps, err := s.People(ctx)
-		if err != nil {
-			return nil, err
-		}
-		for _, p := range ps {
-			if p.Name == it.ID {
-				return p, nil
-			}
-		}
 	case "component":
 		return s.Component(ctx, it.ID)
+	case "person":
+		ps, err1 := s.People(ctx)
+		v, err = pick(ps, err1, func(p store.Person) bool { return p.Name == it.ID }, false)
 	case "scan":
-		scans, err := s.Scans(ctx)
-		if err != nil {
-			return nil, err
-		}
-		for _, sc := range scans {
-			if sc.ID == it.ID {
-				return sc, nil
-			}
-		}
-	case "chain", "standard":
-		get := s.Chains
-		if it.Kind == "standard" {
-			get = s.Standards
-		}
-		docs, err := get(ctx)
-		if err != nil {
-			return nil, err
-		}
-		for _, d := range docs {
-			if d.ID == it.ID {
-				return d, nil
-			}
-		}
+		scans, err1 := s.Scans(ctx)
+		v, err = pick(scans, err1, func(sc store.Scan) bool { return sc.ID == it.ID }, false)
+	case "chain":
+		docs, err1 := s.Chains(ctx)
+		v, err = pick(docs, err1, func(d store.Document) bool { return d.ID == it.ID }, false)
+	case "standard":
+		docs, err1 := s.Standards(ctx)
+		v, err = pick(docs, err1, func(d store.Document) bool { return d.ID == it.ID }, false)
 	case "calibration":
-		cals, err := s.Calibrations(ctx)
-		if err != nil {
-			return nil, err
-		}
-		var vs []store.Calibration
-		for _, c := range cals {
-			if c.ID == it.ID {
-				vs = append(vs, c)
-			}
-		}
-		return vs, nil
+		cals, err1 := s.Calibrations(ctx)
+		v, err = pick(cals, err1, func(c store.Calibration) bool { return c.ID == it.ID }, true)
 	case "group":
-		gs, err := s.GroupChecks(ctx)
-		if err != nil {
-			return nil, err
-		}
-		var out []store.GroupCheck
-		for _, g := range gs {
-			if g.Group == it.ID {
-				out = append(out, g)
-			}
-		}
-		return out, nil
+		gs, err1 := s.GroupChecks(ctx)
+		v, err = pick(gs, err1, func(g store.GroupCheck) bool { return g.Group == it.ID }, true)
+	case "report":
+		rs, err1 := s.Releases(ctx)
+		v, err = pick(rs, err1, func(r store.Release) bool { return r.ReportID == it.ID }, false)
 	case "indication":
 		d, err := s.Indication(ctx, it.ID)
 		if err != nil {
@@ -308,33 +296,38 @@ func itemState(ctx context.Context, s *store.Store, it store.Item) (any, error) 
 			store.Indication
 			Calls []store.Call `json:"calls"`
 		}{d, calls}, nil
-	case "report":
-		rs, err := s.Releases(ctx)
-		if err != nil {
-			return nil, err
-		}
-		for _, r := range rs {
-			if r.ReportID == it.ID {
-				return r, nil
-			}
-		}
+	default:
+		err = store.ErrNotFound
 	}
-	return nil, fmt.Errorf("%s %q: %w", it.Kind, it.ID, store.ErrNotFound)
+	if err != nil {
+		return nil, fmt.Errorf("%s %q: %w", it.Kind, it.ID, err)
+	}
+	return v, nil
+}
+
+// openItem opens the record args[0] and resolves the item args[1].
+func openItem(ctx context.Context, e *env, args []string) (*store.Store, store.Item, error) {
+	if err := recordArgs(args, 2, "a record file and an item"); err != nil {
+		return nil, store.Item{}, err
+	}
+	s, err := openRecord(ctx, e, args[0])
+	if err != nil {
+		return nil, store.Item{}, err
+	}
+	it, err := resolveItem(ctx, s, args[1])
+	if err != nil {
+		s.Close()
+		return nil, store.Item{}, err
+	}
+	return s, it, nil
 }
 
 func runRecordsShow(ctx context.Context, e *env, fs *flag.FlagSet, args []string) error {
-	if err := recordArgs(args, 2, "a record file and an item"); err != nil {
-		return err
-	}
-	s, err := openRecord(ctx, e, args[0])
+	s, it, err := openItem(ctx, e, args)
 	if err != nil {
 		return err
 	}
 	defer s.Close()
-	it, err := resolveItem(ctx, s, args[1])
-	if err != nil {
-		return err
-	}
 	state, err := itemState(ctx, s, it)
 	if err != nil {
 		return err
@@ -356,18 +349,11 @@ func runRecordsShow(ctx context.Context, e *env, fs *flag.FlagSet, args []string
 }
 
 func runRecordsHistory(ctx context.Context, e *env, fs *flag.FlagSet, args []string) error {
-	if err := recordArgs(args, 2, "a record file and an item"); err != nil {
-		return err
-	}
-	s, err := openRecord(ctx, e, args[0])
+	s, it, err := openItem(ctx, e, args)
 	if err != nil {
 		return err
 	}
 	defer s.Close()
-	it, err := resolveItem(ctx, s, args[1])
-	if err != nil {
-		return err
-	}
 	hist, err := s.History(ctx, it.Kind, it.ID)
 	if err != nil {
 		return err
