@@ -3,6 +3,7 @@ package calibrate
 import (
 	"fmt"
 	"math"
+	"slices"
 	"time"
 )
 
@@ -85,6 +86,9 @@ func CheckClosing(open, closing *Calibration, proc *Procedure) GroupCheck {
 		fail("the start time of the opening or closing scan is unknown, so the %.2f h limit cannot be checked", g.MaxElapsedS/3600)
 	}
 	for _, oc := range open.Channels {
+		if len(tol.Channels) > 0 && !slices.Contains(tol.Channels, oc.Channel) {
+			continue
+		}
 		cc := closing.Channel(oc.Channel)
 		if cc == nil {
 			fail("channel %s is missing from the closing calibration", oc.Channel)

@@ -282,6 +282,8 @@ type CheckTolerances struct {
 	AmplitudeTolPct float64  `json:"amplitude_tol_pct"`
 	MaxElapsedS     float64  `json:"max_elapsed_s,omitempty"` // 0: the default, 4 h
 	References      []string `json:"references,omitempty"`    // flaws checked; empty: each setup's rotation and normalisation references
+	// Channels lists the set-up channels checked; empty: every set-up.
+	Channels []string `json:"channels,omitempty"`
 }
 
 // DefaultMaxElapsedS is the longest time between an opening and a closing
@@ -623,6 +625,11 @@ func (p *Procedure) validate(file string) error {
 		return bad("check.amplitude_tol_pct", "%v: expected a positive tolerance in percent", ck.AmplitudeTolPct)
 	case !finite(ck.MaxElapsedS) || ck.MaxElapsedS < 0:
 		return bad("check.max_elapsed_s", "%v: expected a non-negative time in seconds (0: 4 h)", ck.MaxElapsedS)
+	}
+	for i, c := range ck.Channels {
+		if !setups[c] {
+			return bad(fmt.Sprintf("check.channels[%d]", i), "%q: not a channel or mix with a set-up", c)
+		}
 	}
 	if p.Conductivity != nil {
 		if err := p.Conductivity.validate(); err != nil {
