@@ -165,7 +165,7 @@ func TestScoreCounts(t *testing.T) {
 	}
 	ind := []analysis.Indication{
 		{Component: "A", PositionM: 1.001, Class: analysis.ClassFlaw, Reportable: true, DepthPct: d(64)},
-		{Component: "A", PositionM: 3.0, Class: analysis.ClassReview, Reportable: true},            // at the dent: false call
+		{Component: "A", PositionM: 3.0, Class: analysis.ClassReview, Reportable: true},                 // at the dent: false call
 		{Component: "A", PositionM: 4.0, Class: analysis.ClassFlaw, Reportable: false, DepthPct: d(10)}, // not reportable: not a call
 		{Component: "B", PositionM: 1.06, Class: analysis.ClassFlaw, Reportable: true, DepthPct: d(25)},
 		{Component: "B", PositionM: 2.05, Class: analysis.ClassFlaw, Reportable: true, DepthPct: d(22)}, // at a support, no flaw
