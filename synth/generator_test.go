@@ -119,7 +119,15 @@ func TestGeneratedDifferentialAntisymmetric(t *testing.T) {
 // (FIELD.md §1.4: shallower OD flaws at larger angles).
 func TestStandardPhaseDepth(t *testing.T) {
 	t.Parallel()
-	g := mustNew(t, Demo())
+	for _, c := range []Config{Demo(), Alternate()} {
+		t.Run(c.Component, func(t *testing.T) {
+			t.Parallel()
+			testStandardPhaseDepth(t, mustNew(t, c))
+		})
+	}
+}
+
+func testStandardPhaseDepth(t *testing.T, g *Generator) {
 	_, chans := quiet(g, g.std.flaws, stdLengthM)
 	step := 1 / g.cfg.SamplesPerM
 	measure := func(z []complex128, centre float64) (float64, float64) {
@@ -475,5 +483,72 @@ func TestWithLength(t *testing.T) {
 	}
 	if got := Demo().WithLength(5.2).SupportsM; !reflect.DeepEqual(got, []float64{1.115, 2.105, 3.095, 4.085}) {
 		t.Errorf("demo length re-spaced to %v", got)
+	}
+}
+
+// TestTruthIsWhereTheSignalIs checks that every OD pit of 50 %TW or more
+// (free span, so nothing else is near) stands out on the prime
+// differential channel at its ground-truth position: its peak-to-peak in a
+// ±15 mm window is at least three times the largest in free-span windows
+// of the same tube away from every condition and landmark.
+func TestTruthIsWhereTheSignalIs(t *testing.T) {
+	t.Parallel()
+	c := Demo()
+	c.FlawRate = 3
+	g := mustNew(t, c)
+	checked := 0
+	for i := 0; i < c.Tubes && checked < 8; i++ {
+		tr, _ := g.TubeTruth(i)
+		var pits []Truth
+		for _, x := range tr {
+			if x.Kind == KindODPit && x.DepthPct >= 50 {
+				pits = append(pits, x)
+			}
+		}
+		if len(pits) == 0 {
+			continue
+		}
+		s, _, _ := g.Tube(i)
+		z := s.Channels[0].Samples
+		pp := func(lo, hi float64) float64 {
+			best := 0.0
+			k0 := int(lo * c.SamplesPerM)
+			k1 := min(len(z), int(hi*c.SamplesPerM))
+			for a := max(0, k0); a < k1; a++ {
+				for b := a + 1; b < k1; b++ {
+					best = math.Max(best, cmplx.Abs(z[b]-z[a]))
+				}
+			}
+			return best
+		}
+		busy := func(zc float64) bool {
+			for _, x := range tr {
+				if math.Abs(x.AxialPositionM-zc) < 0.06+x.LengthM/2 {
+					return true
+				}
+			}
+			for _, l := range g.Landmarks() {
+				if zc > l.StartM-0.08 && zc < l.EndM+0.08 {
+					return true
+				}
+			}
+			return false
+		}
+		quietPP := 0.0
+		for zc := 0.2; zc < c.LengthM-0.2; zc += 0.05 {
+			if !busy(zc) {
+				quietPP = math.Max(quietPP, pp(zc-0.015, zc+0.015))
+			}
+		}
+		for _, p := range pits {
+			got := pp(p.AxialPositionM-0.015, p.AxialPositionM+0.015)
+			if got < 3*quietPP {
+				t.Errorf("%s pit %.0f %%TW at %.3f m: Vpp %.3f V, free span up to %.3f V", p.Component, p.DepthPct, p.AxialPositionM, got, quietPP)
+			}
+			checked++
+		}
+	}
+	if checked == 0 {
+		t.Fatal("no deep pit found to check")
 	}
 }
