@@ -7,6 +7,7 @@ import (
 	"math/rand/v2"
 	"sort"
 	"strconv"
+	"sync"
 	"time"
 
 	"whorl/acquire"
@@ -72,6 +73,8 @@ type Generator struct {
 	open     [][]setting // per group, per channel
 	close    [][]setting
 	std      stdLayout
+	rawOnce  sync.Once
+	rawPlan  []rawPlan
 }
 
 // New validates cfg and prepares a generator. The error names the first

@@ -48,6 +48,11 @@ type rawPlan struct {
 // standard's through-wall hole, time-multiplexed, reference recorded; (3)
 // the differential coil over the first support of tube 0, no reference.
 func (g *Generator) rawPlans() []rawPlan {
+	g.rawOnce.Do(func() { g.rawPlan = g.layoutRaw() })
+	return g.rawPlan
+}
+
+func (g *Generator) layoutRaw() []rawPlan {
 	ft, fz := 0, g.cfg.SupportsM[0]
 	found := false
 	for i := 0; i < g.cfg.Tubes && !found; i++ {
@@ -72,8 +77,11 @@ func (g *Generator) rawPlans() []rawPlan {
 }
 
 // RawName returns the file stem of raw recording i, for example
-// "R01C012-diff-mux".
+// "03-TBS-1905-2422-diff-mux". It panics if i is out of range.
 func (g *Generator) RawName(i int) string {
+	if i < 0 || i >= g.cfg.Raw {
+		panic("synth: raw recording index out of range")
+	}
 	p := g.rawPlans()[i]
 	name := g.std.std.Serial
 	if p.tube >= 0 {

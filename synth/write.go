@@ -40,7 +40,7 @@ type Manifest struct {
 	Landmarks []Landmark `json:"landmarks"`
 	// Conditions counts the ground-truth conditions by kind.
 	Conditions map[string]int `json:"conditions"`
-	// Bytes is the total size of the files written.
+	// Bytes is the total size of the files written before the manifest.
 	Bytes int64 `json:"bytes"`
 }
 
