@@ -87,3 +87,5 @@ func writePDF(t testing.TB, in *reports.Inspection) []byte {
 	}
 	return b.Bytes()
 }
+
+func nan() float64 { return math.NaN() }

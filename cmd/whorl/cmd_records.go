@@ -5,8 +5,6 @@ import (
 	"encoding/json"
 	"flag"
 	"fmt"
-	"io"
-	"os"
 	"sort"
 	"strings"
 	"text/tabwriter"
@@ -437,36 +435,4 @@ func runRecordsVerify(ctx context.Context, e *env, fs *flag.FlagSet, args []stri
 		return checkFailed(fmt.Errorf("%s: %w", args[0], err))
 	}
 	return nil
-}
-
-// writeFileAtomic writes the output of write to path through a temporary
-// file in the same directory, renamed into place only when complete.
-func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
-	dir, base := ".", path
-	if i := strings.LastIndexByte(path, os.PathSeparator); i >= 0 {
-		dir, base = path[:i+1], path[i+1:]
-	}
-	f, err := os.CreateTemp(dir, "."+base+".tmp*")
-	if err != nil {
-		return err
-	}
-	defer func() {
-		if err != nil {
-			f.Close()
-			os.Remove(f.Name())
-		}
-	}()
-	if err := write(f); err != nil {
-		return err
-	}
-	if err := f.Sync(); err != nil {
-		return err
-	}
-	if err := f.Close(); err != nil {
-		return err
-	}
-	if err := os.Chmod(f.Name(), 0o644); err != nil {
-		return err
-	}
-	return os.Rename(f.Name(), path)
 }

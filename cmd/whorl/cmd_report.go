@@ -2,12 +2,9 @@ package main
 
 import (
 	"context"
-	"crypto/sha256"
-	"encoding/hex"
 	"errors"
 	"flag"
 	"fmt"
-	"io"
 	"os"
 	"path/filepath"
 
@@ -64,14 +61,6 @@ Examples:
 	})
 }
 
-// reportOutput is one file written by 'whorl report'.
-type reportOutput struct {
-	Kind   string `json:"kind"`
-	Path   string `json:"path"`
-	Bytes  int64  `json:"bytes"`
-	SHA256 string `json:"sha256"`
-}
-
 func runReport(ctx context.Context, e *env, fs *flag.FlagSet, args []string) error {
 	if len(args) > 0 {
 		return usagef("unexpected argument %q", args[0])
@@ -80,21 +69,14 @@ func runReport(ctx context.Context, e *env, fs *flag.FlagSet, args []string) err
 	if db == "" {
 		return usagef("--db is required")
 	}
-	outs := []struct {
-		flag, kind string
-		write      func(io.Writer, *reports.Inspection) error
-	}{
-		{"pdf", "pdf", reports.WritePDF},
-		{"csv", "indications-csv", reports.WriteIndicationsCSV},
-		{"json", "record-json", reports.WriteRecordJSON},
-		{"record-csv", "record-csv", reports.WriteRecordCSV},
-		{"indications-json", "indications-json", reports.WriteIndicationsJSON},
+	files := reports.Files{
+		PDF:             flagString(fs, "pdf"),
+		IndicationsCSV:  flagString(fs, "csv"),
+		RecordJSON:      flagString(fs, "json"),
+		RecordCSV:       flagString(fs, "record-csv"),
+		IndicationsJSON: flagString(fs, "indications-json"),
 	}
-	any := false
-	for _, o := range outs {
-		any = any || flagString(fs, o.flag) != ""
-	}
-	if !any {
+	if files == (reports.Files{}) {
 		return usagef("give at least one output: --pdf, --csv, --json, --record-csv or --indications-json")
 	}
 	s, err := openRecord(ctx, e, db)
@@ -127,23 +109,12 @@ func runReport(ctx context.Context, e *env, fs *flag.FlagSet, args []string) err
 	if err != nil {
 		return dataError(err)
 	}
-	for _, o := range outs {
-		path := flagString(fs, o.flag)
-		if path == "" {
-			continue
-		}
-		h := sha256.New()
-		var n int64
-		err := writeFileAtomic(path, func(w io.Writer) error {
-			cw := &countWriter{w: io.MultiWriter(w, h)}
-			err := o.write(cw, in)
-			n = cw.n
-			return err
-		})
-		if err != nil {
-			return fmt.Errorf("write %s: %w", path, err)
-		}
-		fmt.Fprintf(e.stdout, "%-17s %s (%d bytes, sha256 %s)\n", o.kind, path, n, hex.EncodeToString(h.Sum(nil)))
+	written, err := reports.WriteFiles(in, files)
+	for _, w := range written {
+		fmt.Fprintf(e.stdout, "%-17s %s (%d bytes, sha256 %s)\n", w.Kind, w.Path, w.Bytes, w.SHA256)
+	}
+	if err != nil {
+		return err
 	}
 	state := "draft"
 	if !in.Draft {
@@ -161,17 +132,6 @@ func countReportable(in *reports.Inspection) int {
 		}
 	}
 	return n
-}
-
-type countWriter struct {
-	w io.Writer
-	n int64
-}
-
-func (c *countWriter) Write(p []byte) (int, error) {
-	n, err := c.w.Write(p)
-	c.n += int64(n)
-	return n, err
 }
 
 // scanWindows returns a window loader that reads each indication's scan

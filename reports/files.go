@@ -1,0 +1,99 @@
+package reports
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+)
+
+// Files names the output files of WriteFiles; an empty name is skipped.
+type Files struct {
+	PDF             string // WritePDF
+	IndicationsCSV  string // WriteIndicationsCSV
+	RecordJSON      string // WriteRecordJSON
+	RecordCSV       string // WriteRecordCSV
+	IndicationsJSON string // WriteIndicationsJSON
+}
+
+// Written describes one file written by WriteFiles.
+type Written struct {
+	Kind   string `json:"kind"` // pdf, indications-csv, record-json, record-csv, indications-json
+	Path   string `json:"path"`
+	Bytes  int64  `json:"bytes"`
+	SHA256 string `json:"sha256"`
+}
+
+// WriteFiles writes the named outputs of in, each through a temporary file
+// in the same directory renamed into place only when complete, so that a
+// failure leaves no partial file. It stops at the first error; files
+// written before it stay.
+func WriteFiles(in *Inspection, f Files) ([]Written, error) {
+	outs := []struct {
+		kind, path string
+		write      func(io.Writer, *Inspection) error
+	}{
+		{"pdf", f.PDF, WritePDF},
+		{"indications-csv", f.IndicationsCSV, WriteIndicationsCSV},
+		{"record-json", f.RecordJSON, WriteRecordJSON},
+		{"record-csv", f.RecordCSV, WriteRecordCSV},
+		{"indications-json", f.IndicationsJSON, WriteIndicationsJSON},
+	}
+	var done []Written
+	for _, o := range outs {
+		if o.path == "" {
+			continue
+		}
+		w, err := writeAtomic(o.path, func(w io.Writer) error { return o.write(w, in) })
+		if err != nil {
+			return done, fmt.Errorf("write %s: %w", o.path, err)
+		}
+		w.Kind = o.kind
+		done = append(done, w)
+	}
+	return done, nil
+}
+
+type countingWriter struct {
+	w io.Writer
+	n int64
+}
+
+func (c *countingWriter) Write(p []byte) (int, error) {
+	n, err := c.w.Write(p)
+	c.n += int64(n)
+	return n, err
+}
+
+func writeAtomic(path string, write func(io.Writer) error) (w Written, err error) {
+	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".tmp*")
+	if err != nil {
+		return w, err
+	}
+	defer func() {
+		if err != nil {
+			f.Close()
+			os.Remove(f.Name())
+		}
+	}()
+	h := sha256.New()
+	cw := &countingWriter{w: io.MultiWriter(f, h)}
+	if err := write(cw); err != nil {
+		return w, err
+	}
+	if err := f.Sync(); err != nil {
+		return w, err
+	}
+	if err := f.Close(); err != nil {
+		return w, err
+	}
+	if err := os.Chmod(f.Name(), 0o644); err != nil {
+		return w, err
+	}
+	if err := os.Rename(f.Name(), path); err != nil {
+		return w, err
+	}
+	return Written{Path: path, Bytes: cw.n, SHA256: hex.EncodeToString(h.Sum(nil))}, nil
+}
