@@ -55,6 +55,8 @@ type TruthError struct {
 	Err    error
 }
 
+// Error formats the error as "FILE: line L column C (FIELD): problem",
+// leaving out what is unknown ("truth line …" for a stream).
 func (e *TruthError) Error() string {
 	where := "truth"
 	if e.File != "" {
@@ -66,6 +68,7 @@ func (e *TruthError) Error() string {
 	return fmt.Sprintf("%s line %d column %d (%s): %v", where, e.Line, e.Column, e.Field, e.Err)
 }
 
+// Unwrap returns the underlying problem.
 func (e *TruthError) Unwrap() error { return e.Err }
 
 // ReadTruth reads a truth file written by WriteTruth. Errors are

@@ -46,11 +46,15 @@ type Manifest struct {
 
 // ManifestGroup is one calibration group of a Manifest.
 type ManifestGroup struct {
-	Name      string `json:"name"`
-	FirstTube int    `json:"first_tube"`
-	Tubes     int    `json:"tubes"`
-	Opening   string `json:"opening"`
-	Closing   string `json:"closing"`
+	// Name is the group's name, "CG01" ….
+	Name string `json:"name"`
+	// FirstTube is the index of its first tube and Tubes their number.
+	FirstTube int `json:"first_tube"`
+	Tubes     int `json:"tubes"`
+	// Opening and Closing are its calibration scans, relative to the
+	// folder.
+	Opening string `json:"opening"`
+	Closing string `json:"closing"`
 	// Drifted marks the group whose closing calibration was made to
 	// drift beyond tolerance.
 	Drifted bool `json:"drifted"`
@@ -58,10 +62,13 @@ type ManifestGroup struct {
 
 // ManifestTube is one tube scan of a Manifest.
 type ManifestTube struct {
-	ID         string `json:"id"`
-	File       string `json:"file"`
-	Group      string `json:"group"`
-	Conditions int    `json:"conditions"`
+	// ID is the tube identifier, File its scan relative to the folder,
+	// Group its calibration group.
+	ID    string `json:"id"`
+	File  string `json:"file"`
+	Group string `json:"group"`
+	// Conditions is the number of ground-truth rows of the tube.
+	Conditions int `json:"conditions"`
 }
 
 // Write generates the whole inspection described by cfg under dir:
