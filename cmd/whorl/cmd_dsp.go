@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"encoding/json"
 	"errors"
@@ -25,7 +26,7 @@ func init() {
 	register(&command{
 		name:     "demod",
 		synopsis: "demodulate a raw coil-voltage record into a Whorl scan (digital lock-in)",
-		usage:    "whorl demod [--rate HZ] [--lowpass HZ] [--order N] [--settle S] [--coil-length L] [--json] -o OUT.csv RAW.csv",
+		usage:    "whorl demod [--rate HZ] [--lowpass HZ] [--order N] [--settle S] [--coil-length L] [--workers N] [--json] -o OUT.csv RAW.csv",
 		help: `Demodulates each excitation frequency of a raw record (# whorl-raw 1) by
 digital lock-in: multiplication by the in-phase and quadrature references,
 a zero-phase low-pass and decimation to the output rate. With a recorded
@@ -47,6 +48,7 @@ Examples:
 			fs.Int("order", 4, "Butterworth order of the low-pass")
 			fs.String("settle", "", "settling time discarded per multiplex slot, e.g. 0.2ms")
 			fs.String("coil-length", "", "effective coil length for the flaw-band check, e.g. 2mm")
+			fs.Int("workers", 1, "frequencies demodulated at the same time (CPU cores to use)")
 			fs.Bool("json", false, "print the demodulation report as JSON")
 		},
 		run: runDemod,
@@ -118,7 +120,8 @@ Examples:
 		help: `Estimates the one-sided power spectral density of a channel (X and Y
 summed) by Welch's method: Hann-windowed segments (symmetric window) with
 50 % overlap, in V²/Hz for a time-sampled scan or V²·m for an axially
-resampled one. Choose a window free of indications for a noise spectrum.
+resampled one (a scan with an axial step is analysed against position).
+Choose a window free of indications for a noise spectrum.
 
 Examples:
   whorl spectrum --channel diff-400k -o psd.csv scan.csv
@@ -173,6 +176,9 @@ func runDemod(ctx context.Context, e *env, fs *flag.FlagSet, args []string) erro
 		return err
 	}
 	opt.Order = flagInt(fs, "order")
+	if opt.Workers = flagInt(fs, "workers"); opt.Workers < 1 {
+		return usagef("--workers %d: expected at least 1", opt.Workers)
+	}
 	if opt.Order < 1 || opt.Order > 16 {
 		return usagef("--order %d: expected 1 to 16", opt.Order)
 	}
@@ -193,8 +199,15 @@ func runDemod(ctx context.Context, e *env, fs *flag.FlagSet, args []string) erro
 	if flagBool(fs, "json") {
 		return writeJSON(e.stdout, rep)
 	}
-	fmt.Fprintf(e.stdout, "%s: %d samples at %g Hz → %d samples at %g Hz (low-pass %g Hz, order %d, zero-phase)\n",
-		in, len(rec.VoltageV), rep.InputRateHz, scan.Len(), rep.OutputRateHz, rep.LowpassHz, rep.Order)
+	lp := "no low-pass"
+	if rep.LowpassHz > 0 {
+		lp = fmt.Sprintf("zero-phase low-pass %g Hz, order %d", rep.LowpassHz, rep.Order)
+	}
+	if rep.SlotS > 0 {
+		lp = fmt.Sprintf("multiplexed, slot %g s, %g s settling discarded, %s", rep.SlotS, rep.SettleS, lp)
+	}
+	fmt.Fprintf(e.stdout, "%s: %d samples at %g Hz → %d samples at %g Hz (%s)\n",
+		in, len(rec.VoltageV), rep.InputRateHz, scan.Len(), rep.OutputRateHz, lp)
 	for _, t := range rep.Tones {
 		if t.ReferenceRecorded {
 			fmt.Fprintf(e.stdout, "  %-14s %10g Hz  reference %.4g V at %.3f°\n", t.Channel, t.FreqHz, t.ReferenceAmplitudeV, t.ReferencePhaseRad*180/math.Pi)
@@ -447,7 +460,11 @@ func runMixApply(ctx context.Context, e *env, fs *flag.FlagSet, args []string) e
 	for k, v := range scan.Meta.Extra {
 		res.Meta.Extra[k] = v
 	}
-	res.Meta.Extra["mix."+name] = strings.TrimSpace(string(mb))
+	var compact bytes.Buffer
+	if err := json.Compact(&compact, mb); err != nil {
+		return dataError(fmt.Errorf("%s: %w", mp, err))
+	}
+	res.Meta.Extra["mix."+name] = compact.String()
 	if err := acquire.WriteScanFile(out, &res); err != nil {
 		return err
 	}
@@ -492,12 +509,14 @@ func runSpectrum(ctx context.Context, e *env, fs *flag.FlagSet, args []string) e
 		}
 		win = ws[0]
 	}
+	// A uniform axial grid is preferred: encoder-triggered samples are
+	// uniform in position while their times follow the probe's speed.
 	rate, xLabel, unit := scan.SampleRateHz, "Frequency (Hz)", "V²/Hz"
-	if !(rate > 0) {
-		if !(scan.AxialStepM > 0) {
-			return dataError(fmt.Errorf("%s: the scan has neither a sample rate nor an axial step", in))
-		}
-		rate, xLabel, unit = 1/scan.AxialStepM, "Spatial frequency (1/m)", "V²·m"
+	switch {
+	case scan.AxialStepM > 0:
+		rate, xLabel, unit = 1/scan.AxialStepM, "Spatial frequency (cycles/m)", "V²·m"
+	case !(rate > 0):
+		return dataError(fmt.Errorf("%s: the scan has neither a sample rate nor an axial step", in))
 	}
 	seg := flagInt(fs, "segment")
 	n := win[1] - win[0]
@@ -535,7 +554,11 @@ func runSpectrum(ctx context.Context, e *env, fs *flag.FlagSet, args []string) e
 		return writeJSON(e.stdout, map[string]any{"channel": name, "window": win, "segment": seg, "unit": unit,
 			"freq": f, "psd": p, "rms_v_excluding_dc": rms})
 	}
-	fmt.Fprintf(e.stdout, "%s %s: %d bins, bin width %.4g, RMS (excluding 0) %.4g V\nwrote %s\n", in, name, len(f), f[1]-f[0], rms, out)
+	binUnit := "Hz"
+	if unit == "V²·m" {
+		binUnit = "cycles/m"
+	}
+	fmt.Fprintf(e.stdout, "%s %s: %d bins, bin width %.4g %s, RMS (excluding 0) %.4g V\nwrote %s\n", in, name, len(f), f[1]-f[0], binUnit, rms, out)
 	return nil
 }
 
@@ -546,7 +569,7 @@ func plotPSD(path string, f, p []float64, xLabel, unit, title string) error {
 	pl.X.Label.Text = xLabel
 	pl.Y.Label.Text = "PSD (" + unit + ")"
 	pl.Y.Scale = plot.LogScale{}
-	pl.Y.Tick.Marker = plot.LogTicks{Prec: -1}
+	pl.Y.Tick.Marker = plot.LogTicks{Prec: 1}
 	floor := math.Inf(1)
 	for _, v := range p[1:] {
 		if v > 0 {

@@ -87,7 +87,7 @@ func TestDemodCommand(t *testing.T) {
 	if got := c.Samples[len(c.Samples)/2]; cmplx.Abs(got-want) > 1e-4 {
 		t.Errorf("demodulated %v, want %v", got, want)
 	}
-	code, stdout, _ = runCmd(t, "demod", "--json", "-o", out, raw)
+	code, stdout, _ = runCmd(t, "demod", "--json", "--workers", "2", "-o", out, raw)
 	var rep dsp.DemodReport
 	if code != exitOK || json.Unmarshal([]byte(stdout), &rep) != nil || len(rep.Tones) != 2 {
 		t.Errorf("--json: exit %d, %q", code, stdout)
@@ -192,7 +192,7 @@ func TestSpectrumCommand(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, stderr)
 	}
 	b, err := os.ReadFile(out)
-	if err != nil || !strings.Contains(string(b), "freq_hz,psd_v2_per_hz") || strings.Count(string(b), "\n") != 2+33 {
+	if err != nil || !strings.Contains(string(b), "freq_per_m,psd_v2_m") || strings.Count(string(b), "\n") != 2+33 {
 		t.Errorf("CSV %q (err %v)", b, err)
 	}
 	if st, err := os.Stat(png); err != nil || st.Size() < 1000 {
