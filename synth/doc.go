@@ -100,7 +100,9 @@
 //     differential channels). Probe wobble is a smooth gap change
 //     (correlation length 15 mm, rms 0.15 V) in the lift-off direction, in
 //     full on the absolute channels and as the two coils' difference plus a
-//     5 % coil imbalance on the differential ones.
+//     5 % coil imbalance on the differential ones. In all, a differential
+//     channel carries about 0.04 V rms, up to about 0.2 V peak-to-peak over
+//     30 mm (FIELD.md §8: 0.05–0.2 V), an absolute channel about 0.15 V rms.
 //
 // # Instrument
 //

@@ -552,3 +552,40 @@ func TestTruthIsWhereTheSignalIs(t *testing.T) {
 		t.Fatal("no deep pit found to check")
 	}
 }
+
+// TestNoiseLevel checks the disturbance on the prime differential channel
+// of clean tubes, in normalised volts (instrument gain removed): the
+// largest peak-to-peak over 30 mm free-span windows lies in 0.05–0.25 V,
+// FIELD.md §8's 0.05–0.2 V [M/CP] with a margin for the largest of many
+// windows.
+func TestNoiseLevel(t *testing.T) {
+	t.Parallel()
+	c := Demo()
+	c.FlawRate = 0
+	g := mustNew(t, c)
+	w := int(0.03 * c.SamplesPerM)
+	var worst, typical float64
+	windows := 0
+	for i := range 6 {
+		s, _, _ := g.Tube(i)
+		gi := g.Group(i)
+		first, n := g.GroupTubes(gi)
+		gain := g.settingAt(gi, 0, (float64(i-first)+0.5)/float64(n)).gain
+		z := s.Channels[0].Samples
+		for a := int(1.3 * c.SamplesPerM); a+w < int(1.8*c.SamplesPerM); a += w {
+			pp := 0.0
+			for x := a; x < a+w; x++ {
+				for y := x + 1; y < a+w; y++ {
+					pp = math.Max(pp, cmplx.Abs(z[y]-z[x])/gain)
+				}
+			}
+			worst = math.Max(worst, pp)
+			typical += pp
+			windows++
+		}
+	}
+	typical /= float64(windows)
+	if worst > 0.25 || typical < 0.05 {
+		t.Errorf("noise peak-to-peak over 30 mm: mean %.3f V, largest %.3f V; want mean ≥ 0.05 V and largest ≤ 0.25 V", typical, worst)
+	}
+}
