@@ -60,6 +60,14 @@
 // (80 %), 91° (60 %), 109° (40 %) and 127° (20 %), and lift-off at about
 // −3° — close to the typical angles FIELD.md §1.4 lists.
 //
+// A limit of the rule: thin elements at the inside and outside surfaces
+// are 2t/δ apart, 90° when t = (π/4)δ, whereas the f90 formula of FIELD.md
+// §2.3 puts 90° at t ≈ 1.09δ; at that frequency the rule gives 125°. The
+// demo follows the plane-wave rule throughout, so its phase spread between
+// ID and OD is somewhat wider than a real coil's at the same frequency;
+// calibration curves are taken from the demo's own standard, as FIELD.md
+// §1.4 advises, so analysis is unaffected.
+//
 // Axially, a feature occupying [z1, z2] is seen by a coil of Gaussian
 // sensitivity (full width at half maximum Config.CoilLengthM) as
 // B(z) = ½[erf((z−z1)/(√2σ)) − erf((z−z2)/(√2σ))] (AbsoluteShape): a
