@@ -30,8 +30,17 @@
 // tail of the wavenumber integral. It is conservative: against mpmath the
 // actual error is usually 10–100 times smaller.
 //
+// Tubes and rods (Dodd & Deeds 1968 cylindrical solutions): TubeProbe is
+// a bobbin coil in the bore of a tube (or a borehole, outer radius +Inf)
+// or an encircling coil around a tube or solid rod (inner radius 0). Its
+// Result is that of one coil; for a differential pair of identical coils,
+// DifferentialImpedance adds their mutual inductance in air, the change of
+// the mutual impedance, and the bridge output Z1 − Z2, which is zero in a
+// uniform tube (the models are axisymmetric and have no flaws).
+//
 // The complex modified Bessel functions the cylindrical models need are
-// in the subpackage cbessel.
+// in the subpackage cbessel; impedancetest holds coils and cases of known
+// answer for tests of code built on this package.
 //
 // # Diagrams, fits and inversions
 //
