@@ -32,9 +32,10 @@ Outputs (at least one):
 Each file is written whole or not at all.
 
 --signals draws the impedance-plane and strip-chart figures of each
-reportable indication from its scan file (path relative to DB's directory),
-after checking the file against the SHA-256 in the record; the figures show
-the channel as stored in the scan file.
+reportable indication from its scan file (a relative path is looked up in
+DB's directory, then in the working directory), after checking the file
+against the size and SHA-256 in the record; the figures show the channel
+as stored in the scan file.
 
 --release NOTE records the QA release of the record as it stands (the
 person at this workstation must be registered with role qa) and then
@@ -134,9 +135,14 @@ func countReportable(in *reports.Inspection) int {
 	return n
 }
 
+func fileExists(path string) bool {
+	_, err := os.Stat(path)
+	return err == nil
+}
+
 // scanWindows returns a window loader that reads each indication's scan
-// file (relative paths from dir), checks its size and SHA-256 against the
-// record, and cuts the indication's channel around the measurement window
+// file (relative paths from dir, else from the working directory), checks
+// its size and SHA-256 against the record, and cuts the indication's channel around the measurement window
 // (one window length either side). An indication whose channel is not in
 // the file (a mix, say) gets no window.
 func scanWindows(dir string, s *store.Store) func(context.Context, store.Indication) (*reports.Window, error) {
@@ -159,9 +165,14 @@ func scanWindows(dir string, s *store.Store) func(context.Context, store.Indicat
 		}
 		sc, ok := scans[rec.ID]
 		if !ok {
+			// A relative path is taken from the record's directory, else
+			// from the working directory; the digest check below rejects
+			// any other file of the same name.
 			path := rec.Path
 			if !filepath.IsAbs(path) {
-				path = filepath.Join(dir, path)
+				if p := filepath.Join(dir, path); fileExists(p) || !fileExists(path) {
+					path = p
+				}
 			}
 			size, sum, err := store.FileDigest(path)
 			if err != nil {
