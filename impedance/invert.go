@@ -1,6 +1,7 @@
 package impedance
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strings"
@@ -200,7 +201,7 @@ func (c *Calibration) Invert(m PlanarForward, readings []Reading, opt InvertOpti
 	prob := &lmProblem{m: mres, residual: residual, step: step, maxIter: 100, tol: 1e-14}
 	res, err := prob.solve(x0)
 	if err != nil {
-		return Inversion{}, fmt.Errorf("inversion: %w", err)
+		return Inversion{}, explainSingular(fmt.Errorf("inversion: %w", err), solve)
 	}
 	s, l := specimenAt(res.p)
 	inv := Inversion{
@@ -215,7 +216,7 @@ func (c *Calibration) Invert(m PlanarForward, readings []Reading, opt InvertOpti
 	}
 	cov, err := c.inversionCovariance(m, readings, chIdx, zn, res.jac, n, iL, s, l)
 	if err != nil {
-		return Inversion{}, err
+		return Inversion{}, explainSingular(err, solve)
 	}
 	if iC >= 0 {
 		inv.UConductivitySPerM = inv.ConductivitySPerM * math.Sqrt(cov[iC*n+iC])
@@ -368,3 +369,12 @@ func (c *Calibration) freqList() string {
 }
 
 func cmplxAbs(z complex128) float64 { return math.Hypot(real(z), imag(z)) }
+
+// explainSingular adds the likely reason to a singular inversion that
+// solves for thickness.
+func explainSingular(err error, solve Unknown) error {
+	if errors.Is(err, errSingular) && solve&SolveThickness != 0 {
+		return fmt.Errorf("%w: the thickness cannot be resolved (a plate more than about three standard depths thick at the lowest frequency looks like a half-space)", err)
+	}
+	return err
+}

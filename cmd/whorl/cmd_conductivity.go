@@ -103,6 +103,10 @@ with standard uncertainties (k = 1) from the reading noise and the
 calibration, and corrects the conductivity to 20 °C where the temperature
 and the material's coefficient are known: σ20 = σT[1 + α(T − 20 °C)].
 A part thickness (column thickness_mm or --thickness) is used in the model.
+With --solve thickness the plate thickness and lift-off are found at a known
+--conductivity (the thickness column or --thickness is the starting value,
+default 1 mm); --solve all finds conductivity, thickness and lift-off
+together from two or more frequencies.
 
 Flags in the output: "thickness < 3δ", "thickness not given",
 "outside calibrated range", "lift-off outside calibrated range",
@@ -114,13 +118,17 @@ MIL-STD-1537C), "misfit" (readings at several frequencies disagree),
 Examples:
   whorl conductivity measure --setup cond-setup.json conductivity-readings.csv
   whorl conductivity measure --setup cond-setup.json --material aluminium-alloy \
-      --thickness 2mm --csv spots.csv > results.csv`,
+      --thickness 2mm --csv > results.csv
+  whorl conductivity measure --setup cond-setup.json --solve thickness \
+      --conductivity 42.6%IACS conductivity-readings.csv`,
 		setFlags: func(fs *flag.FlagSet) {
 			fs.String("setup", "", "set-up file from 'whorl conductivity calibrate' (required)")
 			fs.String("thickness", "", "part thickness where the readings file gives none (e.g. 2mm)")
 			fs.String("material", "", "material for the temperature coefficient where the file gives none")
 			fs.Float64("alpha", math.NaN(), "temperature coefficient α per °C (overrides the material table)")
 			fs.String("target", "1%IACS", "accuracy target: results with 2u above it are flagged")
+			fs.String("solve", "conductivity", "unknowns: conductivity (with lift-off), thickness (with lift-off, at --conductivity) or all (conductivity, thickness and lift-off; two or more frequencies)")
+			fs.String("conductivity", "", "known conductivity for --solve thickness (e.g. 43%IACS)")
 			fs.Bool("csv", false, "print CSV instead of a table")
 			fs.Bool("json", false, "print JSON")
 		},
@@ -819,6 +827,7 @@ type spotResult struct {
 	UIACS20   *float64  `json:"u_conductivity_20c_pct_iacs"`
 	AlphaPerC *float64  `json:"alpha_per_c"`
 	ThickMM   *float64  `json:"thickness_mm"`
+	UThickMM  *float64  `json:"u_thickness_mm,omitempty"`
 	E376UM    *float64  `json:"e376_tolerance_um,omitempty"`
 	Flags     []string  `json:"flags"`
 	failed    bool
@@ -840,6 +849,27 @@ func runCondMeasure(_ context.Context, e *env, fs *flag.FlagSet, args []string) 
 	alphaFlag := flagFloat(fs, "alpha")
 	if flagSet(fs, "alpha") && (math.IsNaN(alphaFlag) || math.IsInf(alphaFlag, 0)) {
 		return usagef("--alpha must be a finite number")
+	}
+	var solve impedance.Unknown
+	switch flagString(fs, "solve") {
+	case "conductivity":
+		solve = impedance.SolveConductivity | impedance.SolveLiftoff
+	case "thickness":
+		solve = impedance.SolveThickness | impedance.SolveLiftoff
+	case "all":
+		solve = impedance.SolveConductivity | impedance.SolveThickness | impedance.SolveLiftoff
+	default:
+		return usagef("--solve %q: expected conductivity, thickness or all", flagString(fs, "solve"))
+	}
+	knownSigma, haveSigma, err := flagQuantity(fs, "conductivity", units.Conductivity)
+	if err != nil {
+		return err
+	}
+	if solve&impedance.SolveConductivity == 0 && !(knownSigma > 0) {
+		return usagef("--solve thickness needs --conductivity (a positive value)")
+	}
+	if solve&impedance.SolveConductivity != 0 && haveSigma {
+		return usagef("--conductivity applies to --solve thickness only")
 	}
 	material := flagString(fs, "material")
 	if material != "" {
@@ -875,7 +905,11 @@ func runCondMeasure(_ context.Context, e *env, fs *flag.FlagSet, args []string) 
 			v := t * 1e3
 			res.ThickMM = &v
 		}
-		inv, err := cal.Invert(m, rd, impedance.InvertOptions{Specimen: impedance.Specimen{ThicknessM: t}})
+		opt := impedance.InvertOptions{Solve: solve, Specimen: impedance.Specimen{ConductivitySPerM: knownSigma, ThicknessM: t}}
+		if solve&impedance.SolveThickness != 0 && !(t > 0) {
+			opt.Specimen.ThicknessM = 1e-3
+		}
+		inv, err := cal.Invert(m, rd, opt)
 		if err != nil {
 			res.failed = true
 			res.Flags = append(res.Flags, "failed: "+err.Error())
@@ -886,8 +920,17 @@ func runCondMeasure(_ context.Context, e *env, fs *flag.FlagSet, args []string) 
 		res.MSPerM, res.UMSPerM = inv.ConductivitySPerM/1e6, inv.UConductivitySPerM/1e6
 		res.IACS, res.UIACS = inv.ConductivitySPerM/58e4, inv.UConductivitySPerM/58e4
 		res.LiftoffUM, res.ULiftUM = inv.ExtraLiftoffM*1e6, inv.UExtraLiftoffM*1e6
+		if solve&impedance.SolveThickness != 0 {
+			v, u := inv.ThicknessM*1e3, inv.UThicknessM*1e3
+			res.ThickMM, res.UThickMM = &v, &u
+			t = inv.ThicknessM
+		}
 		res.Flags = append(res.Flags, condFlags(cal, inv, t, rd, target)...)
-		// Temperature correction.
+		// Temperature correction of a measured conductivity.
+		if solve&impedance.SolveConductivity == 0 {
+			results = append(results, res)
+			continue
+		}
 		if !math.IsNaN(tC) {
 			v := tC
 			res.TempC = &v
@@ -932,6 +975,12 @@ func condFlags(cal *impedance.Calibration, inv impedance.Inversion, thickM float
 	}
 	delta := impedance.SkinDepthM(fmin, inv.ConductivitySPerM, 1)
 	switch {
+	case inv.Solve&impedance.SolveThickness != 0:
+		// A measured thickness is resolved while the plate is thin
+		// against δ; beyond about 2.5δ the readings barely depend on it.
+		if thickM > 2.5*delta {
+			f = append(f, fmt.Sprintf("thickness > 2.5δ (%.3g mm at %s): poorly resolved", 2.5*delta*1e3, impedance.FormatFrequency(fmin)))
+		}
 	case thickM > 0 && thickM < 3*delta:
 		f = append(f, fmt.Sprintf("thickness < 3δ (%.3g mm at %s): result depends on the stated thickness", 3*delta*1e3, impedance.FormatFrequency(fmin)))
 	case thickM == 0:
@@ -1047,7 +1096,7 @@ func printSpotResults(w io.Writer, fs *flag.FlagSet, rs []spotResult, coating bo
 		if coating {
 			head = append(head, "e376_tolerance_um", "flags")
 		} else {
-			head = append(head, "temperature_c", "alpha_per_c", "conductivity_20c_pct_iacs", "u_conductivity_20c_pct_iacs", "thickness_mm", "flags")
+			head = append(head, "temperature_c", "alpha_per_c", "conductivity_20c_pct_iacs", "u_conductivity_20c_pct_iacs", "thickness_mm", "u_thickness_mm", "flags")
 		}
 		if err := cw.Write(head); err != nil {
 			return err
@@ -1068,7 +1117,7 @@ func printSpotResults(w io.Writer, fs *flag.FlagSet, rs []spotResult, coating bo
 			if coating {
 				rec = append(rec, fmtOpt(r.E376UM, 2))
 			} else {
-				rec = append(rec, fmtOpt(r.TempC, 1), fmtOpt(r.AlphaPerC, 5), fmtOpt(r.IACS20, 3), fmtOpt(r.UIACS20, 3), fmtOpt(r.ThickMM, 3))
+				rec = append(rec, fmtOpt(r.TempC, 1), fmtOpt(r.AlphaPerC, 5), fmtOpt(r.IACS20, 3), fmtOpt(r.UIACS20, 3), fmtOpt(r.ThickMM, 4), fmtOpt(r.UThickMM, 4))
 			}
 			rec = append(rec, strings.Join(r.Flags, "; "))
 			if err := cw.Write(rec); err != nil {
@@ -1082,7 +1131,7 @@ func printSpotResults(w io.Writer, fs *flag.FlagSet, rs []spotResult, coating bo
 	if coating {
 		fmt.Fprintln(tw, "SPOT\tFREQ\tCOATING µm\t±u µm\tE376 ± µm\tBASE %IACS\t±u\tFLAGS")
 	} else {
-		fmt.Fprintln(tw, "SPOT\tFREQ\t%IACS\t±u\tMS/m\tLIFT-OFF µm\t±u\tT °C\t%IACS@20°C\t±u\tFLAGS")
+		fmt.Fprintln(tw, "SPOT\tFREQ\t%IACS\t±u\tMS/m\tLIFT-OFF µm\t±u\tTHICK mm\tT °C\t%IACS@20°C\t±u\tFLAGS")
 	}
 	for _, r := range rs {
 		flags := strings.Join(r.Flags, "; ")
@@ -1093,8 +1142,12 @@ func printSpotResults(w io.Writer, fs *flag.FlagSet, rs []spotResult, coating bo
 		if coating {
 			fmt.Fprintf(tw, "%s\t%s\t%.1f\t%.1f\t%s\t%.2f\t%.2f\t%s\n", r.Spot, freqList(r.FreqsHz), r.LiftoffUM, r.ULiftUM, fmtOpt(r.E376UM, 1), r.IACS, r.UIACS, flags)
 		} else {
-			fmt.Fprintf(tw, "%s\t%s\t%.2f\t%.2f\t%.3f\t%.1f\t%.1f\t%s\t%s\t%s\t%s\n", r.Spot, freqList(r.FreqsHz), r.IACS, r.UIACS, r.MSPerM,
-				r.LiftoffUM, r.ULiftUM, fmtOpt(r.TempC, 1), fmtOpt(r.IACS20, 2), fmtOpt(r.UIACS20, 2), flags)
+			th := fmtOpt(r.ThickMM, 3)
+			if r.UThickMM != nil {
+				th += " ± " + fmtOpt(r.UThickMM, 3)
+			}
+			fmt.Fprintf(tw, "%s\t%s\t%.2f\t%.2f\t%.3f\t%.1f\t%.1f\t%s\t%s\t%s\t%s\t%s\n", r.Spot, freqList(r.FreqsHz), r.IACS, r.UIACS, r.MSPerM,
+				r.LiftoffUM, r.ULiftUM, th, fmtOpt(r.TempC, 1), fmtOpt(r.IACS20, 2), fmtOpt(r.UIACS20, 2), flags)
 		}
 	}
 	if err := tw.Flush(); err != nil {

@@ -275,3 +275,51 @@ func TestConductivityOnTestdata(t *testing.T) {
 		}
 	}
 }
+
+// TestConductivitySolveThickness: the 0.8 mm panel of the demo survey
+// (PNL-A05, thinner than 3δ at 60 kHz) measured for conductivity,
+// thickness and lift-off together from its two frequencies; the thick
+// panels are refused with a clear reason.
+func TestConductivitySolveThickness(t *testing.T) {
+	t.Parallel()
+	td := filepath.Join("..", "..", "testdata", "conductivity")
+	p := func(n string) string { return filepath.Join(td, n) }
+	setup := filepath.Join(t.TempDir(), "s.json")
+	if code, _, stderr := runCmd(t, "conductivity", "calibrate", "--probe", p("probe.json"), "--blocks", p("blocks.csv"), "--shims", p("shims.csv"),
+		"--readings", p("conductivity-calibration.csv"), "-o", setup); code != 0 {
+		t.Fatal(stderr)
+	}
+	code, stdout, stderr := runCmd(t, "conductivity", "measure", "--setup", setup, "--solve", "all", "--json", p("conductivity-readings.csv"))
+	if code != exitData || !strings.Contains(stderr, "could not be inverted") {
+		t.Errorf("exit %d, stderr %q: thick panels should fail", code, stderr)
+	}
+	var res struct {
+		Results []struct {
+			Spot  string   `json:"spot"`
+			T     *float64 `json:"thickness_mm"`
+			UT    *float64 `json:"u_thickness_mm"`
+			Flags []string `json:"flags"`
+		} `json:"results"`
+	}
+	if err := json.Unmarshal([]byte(stdout), &res); err != nil {
+		t.Fatal(err)
+	}
+	n := 0
+	for _, r := range res.Results {
+		if !strings.HasPrefix(r.Spot, "PNL-A05") {
+			continue
+		}
+		n++
+		// True thickness 0.80 mm (survey-truth.csv).
+		if r.T == nil || r.UT == nil || math.Abs(*r.T-0.80) > 4**r.UT {
+			t.Errorf("%s: thickness %v ± %v mm, want 0.80 within 4u; flags %q", r.Spot, r.T, r.UT, r.Flags)
+		}
+	}
+	if n != 4 {
+		t.Errorf("%d PNL-A05 results, want 4", n)
+	}
+	code, _, stderr = runCmd(t, "conductivity", "measure", "--setup", setup, "--solve", "thickness", p("conductivity-readings.csv"))
+	if code != exitUsage || !strings.Contains(stderr, "--conductivity") {
+		t.Errorf("--solve thickness without --conductivity: exit %d, %q", code, stderr)
+	}
+}
