@@ -503,3 +503,11 @@ func (s *Store) Head(ctx context.Context) (int64, string, error) {
 	}
 	return seq, h, err
 }
+
+// EventHash returns the stored hash of event seq, or an error wrapping
+// ErrNotFound when the log has no such event. With a chain head printed in
+// an earlier report, it shows whether the record still holds that event
+// unchanged (after Verify has checked the chain up to the present head).
+func (s *Store) EventHash(ctx context.Context, seq int64) (string, error) {
+	return queryOne(ctx, s.db, scanString, fmt.Sprintf("event %d", seq), "SELECT hash FROM events WHERE seq = ?", seq)
+}

@@ -3,9 +3,11 @@ package main
 import (
 	"context"
 	"encoding/json"
+	"errors"
 	"flag"
 	"fmt"
 	"sort"
+	"strconv"
 	"strings"
 	"text/tabwriter"
 	"time"
@@ -71,17 +73,23 @@ Examples:
 	register(&command{
 		name:     "records verify",
 		synopsis: "recompute the record's hash chain and row hashes; fail on any alteration",
-		usage:    "whorl records verify [--json] DB",
+		usage:    "whorl records verify [--anchor SEQ:HASH] [--json] DB",
 		help: `Recomputes the hash of every event and of every row it created, checks that
 each event holds the previous event's hash and that every row belongs to
 exactly one event. Exits 0 with a summary when the record verifies, and
 with code 4 naming the first event (and row) that does not match
 otherwise. Read-only.
 
+The chain alone cannot show that its newest events were cut off. --anchor
+takes a chain head printed earlier (in a report: "event 51, e166...") and
+also checks that the record still holds that event with that hash.
+
 Examples:
   whorl records verify insp.whorl
+  whorl records verify --anchor 51:e16609ce1fc9a674a135dd25e1ab6a43943706369a1d007beb8f0e4710764548 insp.whorl
   whorl records verify --json insp.whorl`,
 		setFlags: func(fs *flag.FlagSet) {
+			fs.String("anchor", "", "also require event `SEQ:HASH` (a chain head from an earlier report)")
 			fs.Bool("json", false, "print the verification result as JSON")
 		},
 		run: runRecordsVerify,
@@ -415,6 +423,16 @@ func runRecordsVerify(ctx context.Context, e *env, fs *flag.FlagSet, args []stri
 	if err := recordArgs(args, 1, "one record file"); err != nil {
 		return err
 	}
+	var anchorSeq int64
+	var anchorHash string
+	if a := flagString(fs, "anchor"); a != "" {
+		seqS, h, ok := strings.Cut(a, ":")
+		n, err := strconv.ParseInt(seqS, 10, 64)
+		if !ok || err != nil || n < 1 || len(h) != 64 {
+			return usagef("--anchor %q: want SEQ:HASH, an event number and its 64-digit hex hash", a)
+		}
+		anchorSeq, anchorHash = n, strings.ToLower(h)
+	}
 	s, err := openRecord(ctx, e, args[0])
 	if err != nil {
 		return err
@@ -423,6 +441,17 @@ func runRecordsVerify(ctx context.Context, e *env, fs *flag.FlagSet, args []stri
 	res, err := s.Verify(ctx)
 	if err != nil {
 		return err
+	}
+	if res.OK && anchorSeq > 0 {
+		got, err := s.EventHash(ctx, anchorSeq)
+		switch {
+		case errors.Is(err, store.ErrNotFound):
+			res.OK, res.Problem = false, &store.Problem{Seq: anchorSeq, What: "the anchored event is missing: the record was cut short"}
+		case err != nil:
+			return err
+		case got != anchorHash:
+			res.OK, res.Problem = false, &store.Problem{Seq: anchorSeq, What: "the anchored event has another hash: the record was rewritten"}
+		}
 	}
 	if flagBool(fs, "json") {
 		if err := writeJSON(e.stdout, res); err != nil {

@@ -3,6 +3,8 @@ package main
 import (
 	"bytes"
 	"context"
+	"encoding/json"
+	"fmt"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -89,6 +91,30 @@ func TestRecordsVerifyTampered(t *testing.T) {
 	code, out, errs := runCmd(t, "records", "verify", db)
 	if code != exitCheck || !strings.Contains(errs, "event 43") || !strings.Contains(errs, "row calls/") {
 		t.Errorf("verify of a tampered record: code %d, stdout %q, stderr %q; want %d naming event 43 and its calls row", code, out, errs, exitCheck)
+	}
+	good := record(t)
+	code, out, _ = runCmd(t, "records", "verify", "--json", good)
+	var res struct {
+		HeadSeq  int64  `json:"head_seq"`
+		HeadHash string `json:"head_hash"`
+	}
+	if err := json.Unmarshal([]byte(out), &res); err != nil || res.HeadSeq != 51 {
+		t.Fatalf("verify --json: %q, %v", out, err)
+	}
+	anchor := fmt.Sprintf("%d:%s", res.HeadSeq, res.HeadHash)
+	if code, _, errs := runCmd(t, "records", "verify", "--anchor", anchor, good); code != exitOK {
+		t.Errorf("verify --anchor on the same record: code %d, stderr %q", code, errs)
+	}
+	// Cutting off the newest event with its row leaves a chain that verifies
+	// on its own; the anchor shows the cut.
+	if err := storetest.Tamper(good, "DELETE FROM releases", "DELETE FROM events WHERE seq = 51"); err != nil {
+		t.Fatal(err)
+	}
+	if code, _, _ := runCmd(t, "records", "verify", good); code != exitOK {
+		t.Errorf("verify of a cut record without anchor: code %d; want %d (the chain alone cannot show it)", code, exitOK)
+	}
+	if code, _, errs := runCmd(t, "records", "verify", "--anchor", anchor, good); code != exitCheck || !strings.Contains(errs, "event 51") {
+		t.Errorf("verify --anchor of a cut record: code %d, stderr %q; want %d naming event 51", code, errs, exitCheck)
 	}
 	code, _, errs = runCmd(t, "report", "--db", db, "--csv", filepath.Join(t.TempDir(), "x.csv"))
 	if code != exitCheck || !strings.Contains(errs, "does not verify") {
