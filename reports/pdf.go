@@ -631,6 +631,7 @@ func (p *pdfw) recordSection() {
 	p.kv([][2]string{
 		{"Event log", fmt.Sprintf("%d events (%s)", in.Chain.Events, strings.Join(parts, ", "))},
 		{"Chain head", fmt.Sprintf("event %d, %s", in.Chain.HeadSeq, in.Chain.HeadHash)},
+		{"Check the record", fmt.Sprintf("whorl records verify --anchor %d:%s RECORD", in.Chain.HeadSeq, in.Chain.HeadHash)},
 		{"Processing chains", docList(in.Chains)},
 		{"Reference standards", docList(in.Standards)},
 	})
@@ -643,7 +644,8 @@ func (p *pdfw) recordSection() {
 		p.table([]column{{"Released report", 44, "L"}, {"Released by", 30, "L"}, {"At", 30, "L"}, {"Covers events to", 34, "L"}, {"Note", 42, "L"}}, rows)
 	}
 	p.para("The event log records every change with who, when, what before, what after and why; each event holds the hash of the one before. "+
-		"'whorl records verify' recomputes the chain from the record file.", "", 8)
+		"'whorl records verify' recomputes the chain from the record file; with --anchor it also checks that the record still holds the "+
+		"chain head above, so that events removed from its end are noticed.", "", 8)
 }
 
 func docList(ds []store.Document) string {
