@@ -123,3 +123,29 @@ func FuzzReadFiles(f *testing.F) {
 		}
 	})
 }
+
+// FuzzReadSetup checks that the probe and setup readers never panic, name
+// the file in their errors, and that an accepted setup is usable.
+func FuzzReadSetup(f *testing.F) {
+	f.Add(`{"inner_radius_m":0.001,"outer_radius_m":0.0025,"length_m":0.0015,"turns":200,"liftoff_m":0.0003}`)
+	f.Add(`{"format":"whorl-impedance-setup/1","kind":"conductivity","probe":{"inner_radius_m":0.001,"outer_radius_m":0.0025,"length_m":0.0015,"turns":200,"liftoff_m":0.0003},` +
+		`"calibration":{"coil":{"InnerRadiusM":0.001,"OuterRadiusM":0.0025,"LengthM":0.0015,"Turns":200},"channels":[{"freq_hz":60000,"gain_v":{"re":1,"im":0},"offset_v":{"re":0,"im":0}}],` +
+		`"liftoff_m":0.0003,"coil_scale":1,"params":[],"covariance":[],"noise_v":0.001}}`)
+	f.Add(`{"format":"x"}`)
+	f.Add(`[`)
+	f.Fuzz(func(t *testing.T, s string) {
+		if _, err := ReadProbe(strings.NewReader(s), "p.json"); err != nil && !strings.HasPrefix(err.Error(), "p.json") {
+			t.Errorf("error %q does not name the file", err)
+		}
+		st, err := ReadSetup(strings.NewReader(s), "s.json")
+		if err != nil {
+			if !strings.HasPrefix(err.Error(), "s.json") {
+				t.Errorf("error %q does not name the file", err)
+			}
+			return
+		}
+		if len(st.Calibration.Channels) == 0 || st.Calibration.Channels[0].Gain == 0 {
+			t.Errorf("accepted an unusable setup %+v", st)
+		}
+	})
+}
