@@ -159,6 +159,7 @@ func Build(std *Standard, proc *Procedure, scan *acquire.Scan, opt BuildOptions)
 		CodeEdition:       proc.CodeEdition,
 		ScanComponent:     scan.Meta.Component,
 		ProbeID:           scan.Meta.ProbeID,
+		Group:             scan.Meta.CalGroup,
 		Lobe:              proc.Lobe,
 	}
 	if cal.Lobe == "" {

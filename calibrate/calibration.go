@@ -55,6 +55,9 @@ type Calibration struct {
 	ScanComponent string `json:"scan_component"`
 	ScanStart     string `json:"scan_start,omitempty"` // RFC 3339; empty when unknown
 	ProbeID       string `json:"probe_id,omitempty"`
+	// Group is the calibration group of the standard scan (its
+	// Meta.CalGroup); scans of the same group are analysed with it.
+	Group string `json:"group,omitempty"`
 	// OpeningID names the opening calibration whose mixes a closing
 	// calibration reused (empty for an opening calibration).
 	OpeningID string `json:"opening_id,omitempty"`
