@@ -6,6 +6,7 @@ import (
 	"math/rand/v2"
 	"path/filepath"
 	"reflect"
+	"sort"
 	"strings"
 	"sync"
 	"testing"
@@ -52,6 +53,21 @@ func quiet(g *Generator, feats []feature, lengthM float64) (*pull, []acquire.Cha
 		set[c] = setting{gain: 1}
 	}
 	return p, g.render(p, feats, r, noiseLevels{}, set)
+}
+
+// chord returns the longest chord of z[k0:k1] (indices clamped to z), its
+// length in volts and its angle in radians: the peak-to-peak amplitude
+// and phase of FIELD.md §1.3, by brute force.
+func chord(z []complex128, k0, k1 int) (vpp, phaseRad float64) {
+	k0, k1 = max(0, k0), min(len(z), k1)
+	for i := k0; i < k1; i++ {
+		for j := i + 1; j < k1; j++ {
+			if a := cmplx.Abs(z[j] - z[i]); a > vpp {
+				vpp, phaseRad = a, cmplx.Phase(z[j]-z[i])
+			}
+		}
+	}
+	return vpp, phaseRad
 }
 
 // TestGeneratedPhaseLag checks the phase lag in generated data: two thin
@@ -131,16 +147,7 @@ func testStandardPhaseDepth(t *testing.T, g *Generator) {
 	_, chans := quiet(g, g.std.flaws, stdLengthM)
 	step := 1 / g.cfg.SamplesPerM
 	measure := func(z []complex128, centre float64) (float64, float64) {
-		k0, k1 := int((centre-0.015)/step), int((centre+0.015)/step)
-		best, ph := 0.0, 0.0
-		for i := k0; i < k1; i++ {
-			for j := i + 1; j < k1; j++ {
-				if a := cmplx.Abs(z[j] - z[i]); a > best {
-					best, ph = a, cmplx.Phase(z[j]-z[i])
-				}
-			}
-		}
-		return best, ph
+		return chord(z, int((centre-0.015)/step), int((centre+0.015)/step))
 	}
 	for fi := range g.cfg.FreqsHz {
 		vpp, _ := measure(chans[2*fi].Samples, g.std.std.Flaws[g.std.fbh20].AxialPositionM)
@@ -185,17 +192,12 @@ func TestSupportMixResidue(t *testing.T) {
 				den += cmplx.Conj(s2[i]) * s2[i]
 			}
 			w := num / den
-			pp := func(x func(int) complex128) float64 {
-				best := 0.0
-				for i := range s1 {
-					for j := i + 1; j < len(s1); j++ {
-						best = math.Max(best, cmplx.Abs(x(j)-x(i)))
-					}
-				}
-				return best
+			res := make([]complex128, len(s1))
+			for i := range s1 {
+				res[i] = s1[i] - w*s2[i]
 			}
-			before := pp(func(i int) complex128 { return s1[i] })
-			after := pp(func(i int) complex128 { return s1[i] - w*s2[i] })
+			before, _ := chord(s1, 0, len(s1))
+			after, _ := chord(res, 0, len(res))
 			if r := after / before; r < 0.05 || r > 0.15 {
 				t.Errorf("mix residue %.3f of %.2f V, want 0.05–0.15", r, before)
 			}
@@ -310,19 +312,9 @@ func TestCalibrationDrift(t *testing.T) {
 	g := mustNew(t, c)
 	twh := g.std.std.Flaws[0].AxialPositionM
 	meas := func(s *acquire.Scan) (float64, float64) {
-		z := s.Channels[0].Samples
-		best, ph := 0.0, 0.0
-		for i := range z {
-			if math.Abs(s.PositionM[i]-twh) > 0.012 {
-				continue
-			}
-			for j := i + 1; j < len(z) && s.PositionM[j]-twh < 0.012; j++ {
-				if a := cmplx.Abs(z[j] - z[i]); a > best {
-					best, ph = a, cmplx.Phase(z[j]-z[i])
-				}
-			}
-		}
-		return best, ph
+		k0 := sort.SearchFloat64s(s.PositionM, twh-0.012)
+		k1 := sort.SearchFloat64s(s.PositionM, twh+0.012)
+		return chord(s.Channels[0].Samples, k0, k1)
 	}
 	for gi := range c.Groups {
 		o, _ := g.CalibrationScan(gi, false)
@@ -511,15 +503,8 @@ func TestTruthIsWhereTheSignalIs(t *testing.T) {
 		s, _, _ := g.Tube(i)
 		z := s.Channels[0].Samples
 		pp := func(lo, hi float64) float64 {
-			best := 0.0
-			k0 := int(lo * c.SamplesPerM)
-			k1 := min(len(z), int(hi*c.SamplesPerM))
-			for a := max(0, k0); a < k1; a++ {
-				for b := a + 1; b < k1; b++ {
-					best = math.Max(best, cmplx.Abs(z[b]-z[a]))
-				}
-			}
-			return best
+			v, _ := chord(z, int(lo*c.SamplesPerM), int(hi*c.SamplesPerM))
+			return v
 		}
 		busy := func(zc float64) bool {
 			for _, x := range tr {
@@ -573,12 +558,8 @@ func TestNoiseLevel(t *testing.T) {
 		gain := g.settingAt(gi, 0, (float64(i-first)+0.5)/float64(n)).gain
 		z := s.Channels[0].Samples
 		for a := int(1.3 * c.SamplesPerM); a+w < int(1.8*c.SamplesPerM); a += w {
-			pp := 0.0
-			for x := a; x < a+w; x++ {
-				for y := x + 1; y < a+w; y++ {
-					pp = math.Max(pp, cmplx.Abs(z[y]-z[x])/gain)
-				}
-			}
+			pp, _ := chord(z, a, a+w)
+			pp /= gain
 			worst = math.Max(worst, pp)
 			typical += pp
 			windows++
