@@ -166,6 +166,7 @@ func stripFigure(d *Indication, wMM, hMM float64) ([]byte, error) {
 		lo, hi = math.Min(lo, math.Min(w.X[i], w.Y[i])), math.Max(hi, math.Max(w.X[i], w.Y[i]))
 	}
 	lo, hi = padRange(lo, hi)
+	hi += 0.25 * (hi - lo) // headroom for the legend
 	p := plot.New()
 	p.Title.Text = "Strip chart"
 	p.X.Label.Text = "Sample"
