@@ -225,3 +225,22 @@ func TestMaterials(t *testing.T) {
 		}
 	}
 }
+
+// TestSkinDepthAlloy690Worked checks the standard depth of penetration of
+// alloy 690 (ρ = 115 µΩ·cm) against the worked values of the f90 notes:
+// 3.8, 1.71, 1.21, 0.99, 0.85 and 0.73 mm at 20, 100, 200, 300, 400 and
+// 550 kHz (δ[mm] = 50.3·√(ρ[µΩ·cm]/f[Hz]); rounded to 2–3 digits, hence
+// the tolerance of half a unit in the last digit).
+func TestSkinDepthAlloy690Worked(t *testing.T) {
+	t.Parallel()
+	sigma := 1 / 115e-8
+	for _, c := range []struct{ fHz, wantMM, tolMM float64 }{
+		{20e3, 3.8, 0.05}, {100e3, 1.71, 0.005}, {200e3, 1.21, 0.005},
+		{300e3, 0.99, 0.005}, {400e3, 0.85, 0.005}, {550e3, 0.73, 0.005},
+	} {
+		got := SkinDepthM(c.fHz, sigma, 1) * 1e3
+		if !scalar.EqualWithinAbs(got, c.wantMM, c.tolMM) {
+			t.Errorf("δ(alloy 690, %g kHz) = %.4f mm, want %g ± %g", c.fHz/1e3, got, c.wantMM, c.tolMM)
+		}
+	}
+}
