@@ -155,6 +155,12 @@ func TestIsolatedCoil(t *testing.T) {
 	if got := mustModel(t, coilM1).L0H(); !scalar.EqualWithinRel(got, 376.8e-6, 0.01) {
 		t.Errorf("L0(m1) = %.6g H, want 376.8 μH measured (MODEL.md §3.2) ± 1 %%", got)
 	}
+	// Coil "pp1" of the same data set: catalogue L0 345.85 μH (MODEL.md
+	// §3.2, apparently measured), r1 = 3.00, r2 = 4.56, l = 5.02 mm, N = 253.
+	pp1 := Coil{InnerRadiusM: 3.00e-3, OuterRadiusM: 4.56e-3, LengthM: 5.02e-3, Turns: 253}
+	if got := mustModel(t, pp1).L0H(); !scalar.EqualWithinRel(got, 345.85e-6, 0.01) {
+		t.Errorf("L0(pp1) = %.6g H, want 345.85 μH (catalogue, MODEL.md §3.2) ± 1 %%", got)
+	}
 }
 
 // nagaoka returns Nagaoka's coefficient of a current sheet of radius a and

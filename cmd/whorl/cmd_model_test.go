@@ -144,3 +144,20 @@ func TestModelDepthProfile(t *testing.T) {
 		t.Errorf("--help: exit %d, %s", code, out)
 	}
 }
+
+// FuzzParseLayerSpec checks that the --layer parser never panics and that
+// every accepted layer is physically valid.
+func FuzzParseLayerSpec(f *testing.F) {
+	for _, s := range []string{"inf:17.4MS/m", "0.1mm:100%IACS", "inf:5MS/m:80", "1mm:0", "inf:30%IAC", "::", "inf", "-1mm:1MS/m", "1mm:1MS/m:0.5", "nan:1", "1e400mm:1"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		l, err := parseLayerSpec(s)
+		if err != nil {
+			return
+		}
+		if !(l.ThicknessM > 0) || !(l.ConductivitySPerM >= 0) || math.IsInf(l.ConductivitySPerM, 0) || !(l.RelPermeability >= 1) || math.IsInf(l.RelPermeability, 0) {
+			t.Errorf("parseLayerSpec(%q) = %+v accepted an invalid layer", s, l)
+		}
+	})
+}
