@@ -112,26 +112,19 @@ func asymptoticSums(z complex128) (m0, p0, m1, p1 complex128) {
 			fk := float64(k)
 			next := t * complex((mu-(2*fk-1)*(2*fk-1))/(8*fk), 0) * iz
 			a := cmplx.Abs(next)
-			if a >= prev || a < 1e-17 {
-				if a < 1e-17 {
-					t = next
-					if k%2 == 1 {
-						sm -= t
-					} else {
-						sm += t
-					}
-					sp += t
-				}
-				break
+			if a >= prev {
+				break // the divergent tail starts: stop at the smallest term
 			}
-			prev = a
-			t = next
+			prev, t = a, next
 			if k%2 == 1 {
 				sm -= t
 			} else {
 				sm += t
 			}
 			sp += t
+			if a < 1e-17 {
+				break
+			}
 		}
 		if nu == 0 {
 			m0, p0 = sm, sp
