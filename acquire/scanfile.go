@@ -515,6 +515,8 @@ func (mw *metaWriter) putQ(key string, v float64, unit string) {
 	mw.put(key, fmtG(v)+" "+unit)
 }
 
+func isFinite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+
 func checkFinite(what string, v float64) error {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return fmt.Errorf("%s is %v: expected a finite number", what, v)
@@ -588,11 +590,8 @@ func WriteScan(w io.Writer, s *Scan) error {
 			return err
 		}
 		for i, v := range c.Samples {
-			if err := checkFinite(fmt.Sprintf("scan %q: channel %q sample %d X", s.Meta.Component, c.Name, i), real(v)); err != nil {
-				return err
-			}
-			if err := checkFinite(fmt.Sprintf("scan %q: channel %q sample %d Y", s.Meta.Component, c.Name, i), imag(v)); err != nil {
-				return err
+			if !isFinite(real(v)) || !isFinite(imag(v)) {
+				return fmt.Errorf("scan %q: channel %q sample %d is %v: expected finite X and Y", s.Meta.Component, c.Name, i, v)
 			}
 		}
 	}
@@ -601,8 +600,8 @@ func WriteScan(w io.Writer, s *Scan) error {
 		v    []float64
 	}{{"time", s.TimeS}, {"position", s.PositionM}} {
 		for i, v := range ax.v {
-			if err := checkFinite(fmt.Sprintf("scan %q: %s %d", s.Meta.Component, ax.name, i), v); err != nil {
-				return err
+			if !isFinite(v) {
+				return fmt.Errorf("scan %q: %s %d is %v: expected a finite number", s.Meta.Component, ax.name, i, v)
 			}
 		}
 	}
@@ -816,8 +815,8 @@ func WriteRaw(w io.Writer, rec *RawRecord) error {
 	}
 	for _, col := range [][]float64{rec.VoltageV, rec.ReferenceV, rec.PositionM} {
 		for i, v := range col {
-			if err := checkFinite(fmt.Sprintf("raw record %q: sample %d", rec.Meta.Component, i), v); err != nil {
-				return err
+			if !isFinite(v) {
+				return fmt.Errorf("raw record %q: sample %d is %v: expected a finite number", rec.Meta.Component, i, v)
 			}
 		}
 	}

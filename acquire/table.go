@@ -264,6 +264,9 @@ func (t *table) readRows() error {
 				lastP, lastPRaw, lastPLine, haveP = v, raws[iPos], ln, true
 			}
 		}
+		if t.rows == 0 && t.lr.sizeHint > 0 {
+			t.reserve(len(line)+1, iTime >= 0 && !t.dropTime, iPos >= 0, iVolt >= 0, iRef >= 0)
+		}
 		if iTime >= 0 && !t.dropTime {
 			t.timeS = append(t.timeS, vals[iTime])
 		}
@@ -296,6 +299,46 @@ func (t *table) readRows() error {
 		return t.sortRows(lines, iTime, iPos)
 	}
 	return nil
+}
+
+// reserve sizes the sample slices for the rows the input is expected to
+// hold, judged from its size and the length of the first row, so that a
+// large file is decoded without repeated growth. The reservation never
+// exceeds the size of the input text in bytes.
+func (t *table) reserve(rowBytes int, time, pos, volt, ref bool) {
+	perRow := 16 * t.nch
+	for _, b := range []bool{time, pos, volt, ref} {
+		if b {
+			perRow += 8
+		}
+	}
+	if perRow == 0 {
+		return
+	}
+	rows := t.lr.sizeHint/int64(rowBytes) + 1
+	rows += rows / 32
+	if rows*int64(perRow) > t.lr.sizeHint {
+		rows = t.lr.sizeHint / int64(perRow)
+	}
+	if rows < 2 {
+		return
+	}
+	n := int(rows)
+	if time {
+		t.timeS = make([]float64, 0, n)
+	}
+	if pos {
+		t.posM = make([]float64, 0, n)
+	}
+	if volt {
+		t.volt = make([]float64, 0, n)
+	}
+	if ref {
+		t.ref = make([]float64, 0, n)
+	}
+	for k := range t.chans {
+		t.chans[k] = make([]complex128, 0, n)
+	}
 }
 
 // fillLinear replaces the NaN placeholders of empty fields by linear
