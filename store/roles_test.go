@@ -104,6 +104,21 @@ func TestRoles(t *testing.T) {
 		{"qa registers a person", qa, addPerson, true},
 		{"level2 may not register a person", l2, addPerson, false},
 		{"level1 may not register a person", l1, addPerson, false},
+		{"nobody renews their own certificate", l3, func(s *store.Store, a store.Actor) error {
+			p := storetest.Lead
+			p.CertExpiry = "2099-12-31"
+			return s.As(a).AddPerson(ctx, p)
+		}, false},
+		{"qa may not raise their own role", qa, func(s *store.Store, a store.Actor) error {
+			p := storetest.Records
+			p.Role, p.CertExpiry = store.RoleLevel3, "2099-12-31"
+			return s.As(a).AddPerson(ctx, p)
+		}, false},
+		{"level3 renews another's certificate", l3, func(s *store.Store, a store.Actor) error {
+			p := storetest.Expired
+			p.CertExpiry = "2028-01-31"
+			return s.As(a).AddPerson(ctx, p)
+		}, true},
 		{"level1 registers tubes", l1, addComps, true},
 		{"level2 registers tubes", l2, addComps, true},
 		{"qa may not register tubes", qa, addComps, false},

@@ -78,14 +78,19 @@ func requireReason(reason string) error {
 }
 
 // AddPerson registers a person, or a new version of a registered person
-// (changed role or certificate). Level III and QA only.
+// (changed role or certificate). Level III and QA only, and not for
+// themselves.
 func (ss *Session) AddPerson(ctx context.Context, p Person) error {
 	if err := p.validate(); err != nil {
 		return err
 	}
 	return ss.s.write(ctx, ss.actor, "add person", func(w *writer) error {
-		if err := w.authorize(ctx, "register person "+quote(p.Name), RoleLevel3, RoleQA); err != nil {
+		action := "register person " + quote(p.Name)
+		if err := w.authorize(ctx, action, RoleLevel3, RoleQA); err != nil {
 			return err
+		}
+		if p.Name == w.actor.Name {
+			return &PermissionError{Actor: w.actor, Action: action, Why: "nobody changes their own role or certificate"}
 		}
 		return w.addPerson(ctx, p)
 	})

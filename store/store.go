@@ -42,6 +42,7 @@ type PermissionError struct {
 	Why    string // e.g. "only level3 may approve calibrations"
 }
 
+// Error names the person, role, action and reason.
 func (e *PermissionError) Error() string {
 	return fmt.Sprintf("%s (%s) may not %s: %s: %v", quote(e.Actor.Name), e.Actor.Role, e.Action, e.Why, ErrNotPermitted)
 }

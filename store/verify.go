@@ -19,6 +19,7 @@ type Problem struct {
 	What  string `json:"what"`
 }
 
+// String names the event and row and says what does not match.
 func (p *Problem) String() string {
 	s := ""
 	if p.Seq > 0 {
