@@ -290,6 +290,103 @@ var (
 	tempUnits   = map[string]float64{"temperature_c": 1}
 )
 
+// id returns the identifier in column i, which must be non-empty and,
+// when seen is not nil, not yet used (what names the kind of thing).
+func (rw row) id(i int, seen map[string]int, what string) (string, error) {
+	v := rw.text(i)
+	if v == "" {
+		return "", rw.errAt(i, fmt.Errorf("%w: empty field", ErrFileFormat))
+	}
+	if seen != nil {
+		if l, dup := seen[v]; dup {
+			return "", rw.errAt(i, fmt.Errorf("%w: %s %q already defined on line %d", ErrFileFormat, what, v, l))
+		}
+		seen[v] = rw.line
+	}
+	return v, nil
+}
+
+// positive returns the required positive value of column i in SI.
+func (rw row) positive(i int) (float64, error) {
+	v, err := rw.num(i, 0, false)
+	if err != nil {
+		return 0, err
+	}
+	if !(v > 0) {
+		return 0, rw.errAt(i, fmt.Errorf("%w: %s is not positive", ErrFileFormat, rw.text(i)))
+	}
+	return v, nil
+}
+
+// uncertainty returns the optional non-negative value of column i (0 when
+// absent).
+func (rw row) uncertainty(i int) (float64, error) {
+	v, err := rw.num(i, 0, false)
+	if err != nil {
+		return 0, err
+	}
+	if v < 0 {
+		return 0, rw.errAt(i, fmt.Errorf("%w: negative uncertainty", ErrFileFormat))
+	}
+	return v, nil
+}
+
+// thickness returns the optional thickness of column i: 0 when absent or,
+// with allowInf, "inf"; otherwise a positive value.
+func (rw row) thickness(i int, allowInf bool) (float64, error) {
+	v, err := rw.num(i, 0, allowInf)
+	if err != nil {
+		return 0, err
+	}
+	if v < 0 || (rw.has(i) && v == 0) {
+		return 0, rw.errAt(i, fmt.Errorf("%w: thickness %s is not positive", ErrFileFormat, rw.text(i)))
+	}
+	if math.IsInf(v, 1) {
+		v = 0
+	}
+	return v, nil
+}
+
+// reading returns the frequency and the reading X + jY of a row.
+func (rw row) reading(cF, cX, cY int) (float64, complex128, error) {
+	f, err := rw.positive(cF)
+	if err != nil {
+		return 0, 0, err
+	}
+	x, err := rw.num(cX, 0, false)
+	if err != nil {
+		return 0, 0, err
+	}
+	y, err := rw.num(cY, 0, false)
+	if err != nil {
+		return 0, 0, err
+	}
+	return f, complex(x, y), nil
+}
+
+// rows calls fn for every data row and reports a file without any as
+// holding no "what".
+func (t *table) rows(what string, fn func(row) error) error {
+	n := 0
+	for {
+		rw, err := t.next()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return err
+		}
+		if err := fn(rw); err != nil {
+			return err
+		}
+		n++
+	}
+	if n == 0 {
+		return &FileError{File: t.file, Err: fmt.Errorf("%w: no %s", ErrFileFormat, what), Expected: "at least one data row"}
+	}
+	return nil
+}
+
 // ReadBlocks reads a reference-block file (see docs/conductivity.md):
 // header block_id, conductivity_pct_iacs (or conductivity_ms_per_m,
 // conductivity_s_per_m), optional u_conductivity_… in the same choice of
@@ -317,47 +414,26 @@ func ReadBlocks(r io.Reader, name string) ([]RefBlock, error) {
 	}
 	var out []RefBlock
 	seen := map[string]int{}
-	for {
-		rw, err := t.next()
-		if err == io.EOF {
-			break
+	err = t.rows("blocks", func(rw row) error {
+		b := RefBlock{Material: rw.text(cMat), Certificate: rw.text(cCert)}
+		var err error
+		if b.ID, err = rw.id(cID, seen, "block"); err != nil {
+			return err
 		}
-		if err != nil {
-			return nil, err
+		if b.ConductivitySPerM, err = rw.positive(cSigma); err != nil {
+			return err
 		}
-		b := RefBlock{ID: rw.text(cID), Material: rw.text(cMat), Certificate: rw.text(cCert)}
-		if b.ID == "" {
-			return nil, rw.errAt(cID, fmt.Errorf("%w: empty field", ErrFileFormat))
+		if b.UConductivitySPerM, err = rw.uncertainty(cU); err != nil {
+			return err
 		}
-		if l, dup := seen[b.ID]; dup {
-			return nil, rw.errAt(cID, fmt.Errorf("%w: block %q already defined on line %d", ErrFileFormat, b.ID, l))
-		}
-		seen[b.ID] = rw.line
-		if b.ConductivitySPerM, err = rw.num(cSigma, 0, false); err != nil {
-			return nil, err
-		}
-		if !(b.ConductivitySPerM > 0) {
-			return nil, rw.errAt(cSigma, fmt.Errorf("%w: %s is not positive", ErrFileFormat, rw.text(cSigma)))
-		}
-		if b.UConductivitySPerM, err = rw.num(cU, 0, false); err != nil {
-			return nil, err
-		}
-		if b.UConductivitySPerM < 0 {
-			return nil, rw.errAt(cU, fmt.Errorf("%w: negative uncertainty", ErrFileFormat))
-		}
-		if b.ThicknessM, err = rw.num(cT, 0, true); err != nil {
-			return nil, err
-		}
-		if b.ThicknessM < 0 || (rw.has(cT) && b.ThicknessM == 0) {
-			return nil, rw.errAt(cT, fmt.Errorf("%w: thickness %s is not positive", ErrFileFormat, rw.text(cT)))
-		}
-		if math.IsInf(b.ThicknessM, 1) {
-			b.ThicknessM = 0
+		if b.ThicknessM, err = rw.thickness(cT, true); err != nil {
+			return err
 		}
 		out = append(out, b)
-	}
-	if len(out) == 0 {
-		return nil, &FileError{File: name, Err: fmt.Errorf("%w: no blocks", ErrFileFormat), Expected: "at least one data row"}
+		return nil
+	})
+	if err != nil {
+		return nil, err
 	}
 	return out, nil
 }
@@ -383,38 +459,23 @@ func ReadShims(r io.Reader, name string) ([]Shim, error) {
 	}
 	var out []Shim
 	seen := map[string]int{}
-	for {
-		rw, err := t.next()
-		if err == io.EOF {
-			break
+	err = t.rows("shims", func(rw row) error {
+		s := Shim{Certificate: rw.text(cCert)}
+		var err error
+		if s.ID, err = rw.id(cID, seen, "shim"); err != nil {
+			return err
 		}
-		if err != nil {
-			return nil, err
+		if s.ThicknessM, err = rw.positive(cT); err != nil {
+			return err
 		}
-		s := Shim{ID: rw.text(cID), Certificate: rw.text(cCert)}
-		if s.ID == "" {
-			return nil, rw.errAt(cID, fmt.Errorf("%w: empty field", ErrFileFormat))
-		}
-		if l, dup := seen[s.ID]; dup {
-			return nil, rw.errAt(cID, fmt.Errorf("%w: shim %q already defined on line %d", ErrFileFormat, s.ID, l))
-		}
-		seen[s.ID] = rw.line
-		if s.ThicknessM, err = rw.num(cT, 0, false); err != nil {
-			return nil, err
-		}
-		if !(s.ThicknessM > 0) {
-			return nil, rw.errAt(cT, fmt.Errorf("%w: thickness %s is not positive", ErrFileFormat, rw.text(cT)))
-		}
-		if s.UThicknessM, err = rw.num(cU, 0, false); err != nil {
-			return nil, err
-		}
-		if s.UThicknessM < 0 {
-			return nil, rw.errAt(cU, fmt.Errorf("%w: negative uncertainty", ErrFileFormat))
+		if s.UThicknessM, err = rw.uncertainty(cU); err != nil {
+			return err
 		}
 		out = append(out, s)
-	}
-	if len(out) == 0 {
-		return nil, &FileError{File: name, Err: fmt.Errorf("%w: no shims", ErrFileFormat), Expected: "at least one data row"}
+		return nil
+	})
+	if err != nil {
+		return nil, err
 	}
 	return out, nil
 }
@@ -441,36 +502,20 @@ func ReadCalReadings(r io.Reader, name string) ([]CalReading, error) {
 		return nil, err
 	}
 	var out []CalReading
-	for {
-		rw, err := t.next()
-		if err == io.EOF {
-			break
+	err = t.rows("readings", func(rw row) error {
+		c := CalReading{Shim: rw.text(cS), Line: rw.line}
+		var err error
+		if c.Block, err = rw.id(cB, nil, ""); err != nil {
+			return err
 		}
-		if err != nil {
-			return nil, err
+		if c.FreqHz, c.V, err = rw.reading(cF, cX, cY); err != nil {
+			return err
 		}
-		c := CalReading{Block: rw.text(cB), Shim: rw.text(cS), Line: rw.line}
-		if c.Block == "" {
-			return nil, rw.errAt(cB, fmt.Errorf("%w: empty field", ErrFileFormat))
-		}
-		var x, y float64
-		if c.FreqHz, err = rw.num(cF, 0, false); err != nil {
-			return nil, err
-		}
-		if !(c.FreqHz > 0) {
-			return nil, rw.errAt(cF, fmt.Errorf("%w: frequency %s is not positive", ErrFileFormat, rw.text(cF)))
-		}
-		if x, err = rw.num(cX, 0, false); err != nil {
-			return nil, err
-		}
-		if y, err = rw.num(cY, 0, false); err != nil {
-			return nil, err
-		}
-		c.V = complex(x, y)
 		out = append(out, c)
-	}
-	if len(out) == 0 {
-		return nil, &FileError{File: name, Err: fmt.Errorf("%w: no readings", ErrFileFormat), Expected: "at least one data row"}
+		return nil
+	})
+	if err != nil {
+		return nil, err
 	}
 	return out, nil
 }
@@ -506,52 +551,33 @@ func ReadSpotReadings(r io.Reader, name string) ([]SpotReading, error) {
 		f    float64
 	}
 	seen := map[key]int{}
-	for {
-		rw, err := t.next()
-		if err == io.EOF {
-			break
+	err = t.rows("readings", func(rw row) error {
+		s := SpotReading{Material: rw.text(cMat), Line: rw.line}
+		var err error
+		if s.Spot, err = rw.id(cSpot, nil, ""); err != nil {
+			return err
 		}
-		if err != nil {
-			return nil, err
-		}
-		s := SpotReading{Spot: rw.text(cSpot), Material: rw.text(cMat), Line: rw.line}
-		if s.Spot == "" {
-			return nil, rw.errAt(cSpot, fmt.Errorf("%w: empty field", ErrFileFormat))
-		}
-		var x, y float64
-		if s.FreqHz, err = rw.num(cF, 0, false); err != nil {
-			return nil, err
-		}
-		if !(s.FreqHz > 0) {
-			return nil, rw.errAt(cF, fmt.Errorf("%w: frequency %s is not positive", ErrFileFormat, rw.text(cF)))
+		if s.FreqHz, s.V, err = rw.reading(cF, cX, cY); err != nil {
+			return err
 		}
 		if l, dup := seen[key{s.Spot, s.FreqHz}]; dup {
-			return nil, rw.errAt(cF, fmt.Errorf("%w: spot %q already has a reading at this frequency on line %d", ErrFileFormat, s.Spot, l))
+			return rw.errAt(cF, fmt.Errorf("%w: spot %q already has a reading at this frequency on line %d", ErrFileFormat, s.Spot, l))
 		}
 		seen[key{s.Spot, s.FreqHz}] = rw.line
-		if x, err = rw.num(cX, 0, false); err != nil {
-			return nil, err
-		}
-		if y, err = rw.num(cY, 0, false); err != nil {
-			return nil, err
-		}
-		s.V = complex(x, y)
 		if s.TempC, err = rw.num(cTemp, math.NaN(), false); err != nil {
-			return nil, err
+			return err
 		}
 		if rw.has(cTemp) && (s.TempC < -273.15 || s.TempC > 1000) {
-			return nil, rw.errAt(cTemp, fmt.Errorf("%w: temperature %s °C is out of range", ErrFileFormat, rw.text(cTemp)))
+			return rw.errAt(cTemp, fmt.Errorf("%w: temperature %s °C is out of range", ErrFileFormat, rw.text(cTemp)))
 		}
-		if s.ThicknessM, err = rw.num(cT, 0, false); err != nil {
-			return nil, err
-		}
-		if s.ThicknessM < 0 || (rw.has(cT) && s.ThicknessM == 0) {
-			return nil, rw.errAt(cT, fmt.Errorf("%w: thickness %s is not positive", ErrFileFormat, rw.text(cT)))
+		if s.ThicknessM, err = rw.thickness(cT, false); err != nil {
+			return err
 		}
 		out = append(out, s)
-	}
-	if len(out) == 0 {
-		return nil, &FileError{File: name, Err: fmt.Errorf("%w: no readings", ErrFileFormat), Expected: "at least one data row"}
+		return nil
+	})
+	if err != nil {
+		return nil, err
 	}
 	return out, nil
 }
