@@ -96,9 +96,9 @@ func (p Planar) Impedance(freqHz float64) (Result, error) {
 // coefficient. The integral is summed over 21-point Gauss–Kronrod panels
 // of width π/r2 (one period of the fastest oscillation of χ², cos 2αr2),
 // graded geometrically towards α = 0, and stopped where the remainder
-// bound falls below the tolerance; the mean of χ² beyond the last panel,
-// α(r1+r2)/π (MODEL.md §1.5), is integrated analytically-smoothly after
-// the substitution u = 1/α with 12-point Gauss–Legendre.
+// bound falls below the tolerance; the smooth mean of χ² beyond the last
+// panel, α(r1+r2)/π (MODEL.md §1.5), is integrated with 12-point
+// Gauss–Legendre after the substitution u = 1/α.
 type PlanarModel struct {
 	coil   Coil
 	relTol float64
@@ -120,7 +120,7 @@ type PlanarModel struct {
 
 // Grading and truncation parameters of the wavenumber quadrature.
 const (
-	gradeLevels  = 7    // panels [h/2^k, h/2^{k−1}] for k = 1..7, then [0, h/128]
+	gradeLevels  = 7    // graded panels [0, h/2^7], [h/2^7, h/2^6], …, [h/2, h] (see panelEdges)
 	maxPanelsAr2 = 6000 // cap on α_max·r2 (nodes ≈ 6.7 per unit)
 )
 
@@ -143,31 +143,18 @@ func NewPlanarModel(c Coil, relTol float64) (*PlanarModel, error) {
 	m.meanCof = (r1 + r2) / math.Pi
 	m.oscSum = oscillationSum(r1, r2)
 
-	// Panels: graded near 0, then uniform of width h = π/r2, out to the
-	// α where the L0 remainder bound (the slowest-decaying integrand) is
-	// below relTol/10, or the cap.
+	// Panels (panelEdges): graded near 0, then of width h = π/r2, out to
+	// the α where the L0 remainder bound (the slowest-decaying integrand)
+	// is below relTol/10, or the cap. Nodes are added panel by panel with
+	// L0 = scale ∫ χ²/α⁶ · 2(αl + expm1(−αl)) dα (MODEL.md §1.3).
 	h := math.Pi / r2
-	var edges []float64
-	edges = append(edges, 0)
-	for k := gradeLevels; k >= 1; k-- {
-		edges = append(edges, h/math.Pow(2, float64(k)))
-	}
-	m.nGrade = len(edges) - 1
-	// A scale for L0's integral, from the small-α region: ∫ over the first
-	// few panels is computed after the nodes; here a conservative cap is set
-	// and trimmed below.
-	maxA := float64(maxPanelsAr2) / r2
-	for a := h; a <= maxA+0.5*h; a += h {
-		edges = append(edges, a)
-	}
-	// Nodes, panel by panel, with L0 = scale ∫ χ²/α⁶ · 2(αl + expm1(−αl)) dα
-	// (MODEL.md §1.3) accumulated until its remainder bound is met.
-	np := len(edges) - 1
+	m.nGrade = gradeLevels + 1
+	np := int(math.Ceil(float64(maxPanelsAr2)/math.Pi)) + m.nGrade
 	f1 := fAccumulator{r: r1}
 	f2 := fAccumulator{r: r2}
 	var sL, eL float64
 	for p := 0; p < np; p++ {
-		a, b := edges[p], edges[p+1]
+		a, b := panelEdges(p, h)
 		cm, hw := 0.5*(a+b), 0.5*(b-a)
 		var pk, pd float64
 		for i, x := range gk21.x {

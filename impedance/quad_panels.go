@@ -1,12 +1,11 @@
 package impedance
 
 import (
-	"math"
 	"math/cmplx"
 )
 
 // panelIntegral integrates f over [0, ∞) with 21-point Gauss–Kronrod
-// panels: geometrically graded panels on [0, h] (gradeLevels of them),
+// panels laid out by panelEdges: geometrically graded panels on [0, h],
 // then panels of width h. After each panel past the first few it calls
 // remainder(A), a bound of |∫_A^∞ (f − smooth)|, and stops once that is
 // below 0.1·relTol·|sum| (or at maxA). smooth, if not nil, is an
@@ -19,20 +18,9 @@ import (
 func panelIntegral(h, maxA, relTol float64, f func(a float64) complex128, remainder func(A float64) float64, smooth func(a float64) complex128) (complex128, float64) {
 	var sum complex128
 	var errSum float64
-	edges := make([]float64, 0, gradeLevels+2)
-	edges = append(edges, 0)
-	for k := gradeLevels; k >= 0; k-- {
-		edges = append(edges, h/math.Pow(2, float64(k)))
-	}
 	A := 0.0
 	for p := 0; ; p++ {
-		var a, b float64
-		if p < len(edges)-1 {
-			a, b = edges[p], edges[p+1]
-		} else {
-			a = h * float64(p-len(edges)+2)
-			b = a + h
-		}
+		a, b := panelEdges(p, h)
 		cm, hw := 0.5*(a+b), 0.5*(b-a)
 		var pk, pd complex128
 		for i, x := range gk21.x {
