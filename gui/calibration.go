@@ -107,7 +107,7 @@ func (d *CalibrationDesk) build() {
 		container.NewBorder(checkHead, nil, nil, nil, container.NewScroll(container.NewVBox(d.checks, evHead, d.events))),
 	)
 	lower.SetOffset(0.55)
-	upper := container.NewHSplit(d.strip, d.curves)
+	upper := container.NewHSplit(d.strip, container.NewVScroll(d.curves))
 	upper.SetOffset(0.5)
 	body := container.NewVSplit(upper, lower)
 	body.SetOffset(0.6)

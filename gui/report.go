@@ -58,7 +58,7 @@ func NewReportDesk(src viewmodel.Source, win fyne.Window, dir string, status fun
 	caution.Importance = widget.WarningImportance
 	caution.TextStyle = fyne.TextStyle{Bold: true}
 	form := widget.NewForm(widget.NewFormItem("output folder", d.dir), widget.NewFormItem("formats", d.formats))
-	d.Content = container.NewPadded(container.NewVBox(head, scope, form, caution, d.export, d.result))
+	d.Content = container.NewPadded(container.NewVBox(head, scope, form, caution, container.NewHBox(d.export), d.result))
 	return d
 }
 

@@ -318,19 +318,23 @@ func (r *stripRenderer) labels() {
 	axisTitle := fmt.Sprintf("%s / %s", c.AxisName, unit)
 	r.text(axisTitle, r.size.Width-stripRight, yb+17, 1, fg, capSz, false)
 	// Landmark names under the axis, skipping any that would collide.
-	last := float32(-1e9)
-	limit := r.size.Width - stripRight - float32(len(axisTitle))*7 - 10
+	probe := canvas.NewText(axisTitle, fg)
+	probe.TextSize = capSz
+	limit := r.size.Width - stripRight - probe.MinSize().Width - 8
+	end := float32(-1e9) // right end of the last landmark label
 	for _, lm := range s.src.Tube().Landmarks {
 		f := c.Frac(lm.PositionM)
 		if f < 0 || f > 1 {
 			continue
 		}
-		x := s.xOf(lm.PositionM)
-		if x-last < 70 || x > limit {
+		x := s.xOf(lm.PositionM) - 5
+		probe.Text = "▼ " + lm.Name
+		w := probe.MinSize().Width
+		if x < end+8 || x+w > limit {
 			continue
 		}
-		r.text("▼ "+lm.Name, x-5, yb+17, -1, style.Landmark, capSz, false)
-		last = x
+		r.text(probe.Text, x, yb+17, -1, style.Landmark, capSz, false)
+		end = x + w
 	}
 }
 

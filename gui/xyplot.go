@@ -17,7 +17,7 @@ import (
 const (
 	xyLeft   = 52
 	xyRight  = 10
-	xyTop    = 36
+	xyTop    = 34
 	xyBottom = 34
 )
 
@@ -175,20 +175,15 @@ func (r *xyRenderer) labels() {
 		r.text(formatTick(v), x0-4, y-capSz*0.7, 1, dim, capSz, false)
 	}
 	r.text(p.XLabel, x0+w, y0+h+16, 1, fg, capSz, false)
-	yw := r.text("↑ "+p.YLabel, 2, 18, -1, fg, capSz, false)
-	// Legend on the second row, right to left, stopping before the y label.
-	x := r.size.Width - xyRight
-	for i := len(p.Curves) - 1; i >= 0; i-- {
-		c := p.Curves[i]
-		if c.Name == "" {
+	r.text("↑ "+p.YLabel, 2, 18, -1, fg, capSz, false)
+	// Legend: one entry per line in the plot's top-right corner.
+	y := y0 + 3
+	for _, c := range p.Curves {
+		if c.Name == "" || y > y0+h-capSz-4 {
 			continue
 		}
-		t := canvas.NewText("▬ "+c.Name, nil)
-		t.TextSize = capSz
-		if x-t.MinSize().Width < yw+14 {
-			break
-		}
-		x -= r.text("▬ "+c.Name, x, 18, 1, curveColour(style, c), capSz, false) + 10
+		r.text("▬ "+c.Name, x0+w-6, y, 1, curveColour(style, c), capSz, false)
+		y += capSz + 4
 	}
 }
 

@@ -114,7 +114,8 @@ func (ws *Workstation) setMessage(isErr bool, format string, a ...any) {
 // Message returns the latest status line and whether it reports an error.
 func (ws *Workstation) Message() (string, bool) { return ws.message, ws.isError }
 
-// Load reads the component list and opens the first component.
+// Load reads the component list and opens the first component with open
+// indications (or the first component).
 func (ws *Workstation) Load() {
 	var comps []Component
 	var err error
@@ -127,7 +128,15 @@ func (ws *Workstation) Load() {
 		ws.refilter()
 		ws.changed(ChangedComponents)
 		if ws.current == "" && len(ws.visible) > 0 {
-			ws.Select(ws.all[ws.visible[0]].ID)
+			// Start on the first component with open indications.
+			first := ws.all[ws.visible[0]].ID
+			for _, j := range ws.visible {
+				if ws.all[j].Status == WithIndications {
+					first = ws.all[j].ID
+					break
+				}
+			}
+			ws.Select(first)
 		}
 	})
 }

@@ -1,0 +1,701 @@
+package source
+
+import (
+	"context"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"math"
+	"path/filepath"
+	"slices"
+	"sort"
+	"strings"
+	"sync"
+
+	"whorl/acquire"
+	"whorl/analysis"
+	"whorl/analysis/measure"
+	"whorl/calibrate"
+	"whorl/gui/viewmodel"
+	"whorl/store"
+)
+
+// ReportWriter writes the report of an open record in the given formats
+// ("pdf", "csv", "json") into dir and returns the paths written. A nil
+// ReportWriter uses package reports directly.
+type ReportWriter func(ctx context.Context, st *store.Store, dir string, formats []string) ([]string, error)
+
+// Inspection is an inspection record (package store) opened for review:
+// scans are read from the paths the record holds, calibrated with the
+// record's calibration of their group, and analysed again on opening to
+// find their landmarks and noise; calls and approvals are written to the
+// record under the person's name and role.
+type Inspection struct {
+	info  viewmodel.Info
+	actor viewmodel.Actor
+	st    *store.Store
+	ss    *store.Session
+	proc  *calibrate.Procedure
+	// report writes the report; nil uses package reports.
+	report ReportWriter
+	// calScans, when set, gives the file of a calibration's standard scan.
+	calScans func(calID string) string
+
+	mu     sync.Mutex
+	scans  map[string]store.Scan // newest scan per component
+	cals   map[string]calEntry   // by group
+	tubes  map[string]*tubeData  // opened components
+	closed bool
+}
+
+type calEntry struct {
+	rec store.Calibration
+	cal *calibrate.Calibration
+}
+
+// tubeData is an opened component with what measurements need.
+type tubeData struct {
+	tube   *viewmodel.Tube
+	cal    *calibrate.Calibration
+	lms    []analysis.Landmark
+	noiseV map[string]float64
+}
+
+// OpenRecord opens the inspection record at path for actor. The
+// procedure is read from the record (a processing-chain document holding
+// a procedure); report may be nil.
+func OpenRecord(ctx context.Context, path string, actor viewmodel.Actor, report ReportWriter) (*Inspection, error) {
+	st, err := store.Open(ctx, path)
+	if err != nil {
+		return nil, err
+	}
+	in, err := newInspection(ctx, st, actor, report)
+	if err != nil {
+		st.Close()
+		return nil, err
+	}
+	return in, nil
+}
+
+func newInspection(ctx context.Context, st *store.Store, actor viewmodel.Actor, report ReportWriter) (*Inspection, error) {
+	insp, err := st.Inspection(ctx)
+	if err != nil {
+		return nil, err
+	}
+	in := &Inspection{actor: actor, st: st, ss: st.As(store.Actor{Name: actor.Name, Role: store.Role(actor.Role)}), report: report,
+		tubes: map[string]*tubeData{}}
+	in.info = viewmodel.Info{Title: fmt.Sprintf("%s · %s · %s", insp.Site, insp.Component, insp.ID), Path: st.Path(),
+		Procedure: strings.TrimSpace(insp.Procedure + " rev " + insp.ProcedureRev)}
+	chains, err := st.Chains(ctx)
+	if err != nil {
+		return nil, err
+	}
+	for _, d := range chains {
+		if p, err := calibrate.ParseProcedure(d.ID, d.Body); err == nil {
+			in.proc = p
+		}
+	}
+	if in.proc == nil {
+		return nil, fmt.Errorf("%s: the record holds no procedure", st.Path())
+	}
+	if err := in.reload(ctx); err != nil {
+		return nil, err
+	}
+	return in, nil
+}
+
+// reload reads the scans and the newest calibration of each group.
+func (in *Inspection) reload(ctx context.Context) error {
+	scans, err := in.st.Scans(ctx)
+	if err != nil {
+		return err
+	}
+	bySc := map[string]store.Scan{}
+	for _, s := range scans {
+		bySc[s.Component] = s
+	}
+	recs, err := in.st.Calibrations(ctx)
+	if err != nil {
+		return err
+	}
+	cals := map[string]calEntry{}
+	for _, r := range recs {
+		c, err := calibrate.ParseCalibration(r.ID, r.Body)
+		if err != nil {
+			return fmt.Errorf("calibration %s v%d in the record: %w", r.ID, r.Version, err)
+		}
+		if c.OpeningID != "" {
+			continue // a closing calibration: checks the group, does not size
+		}
+		g := groupOf(r.ID)
+		if old, ok := cals[g]; !ok || r.Version >= old.rec.Version {
+			cals[g] = calEntry{rec: r, cal: c}
+		}
+	}
+	in.mu.Lock()
+	in.scans, in.cals = bySc, cals
+	in.mu.Unlock()
+	return nil
+}
+
+// groupOf returns the calibration group named in a calibration id of the
+// form "<group>-open" (the convention of the demo and of `whorl inspect`);
+// other ids are their own group.
+func groupOf(id string) string { return strings.TrimSuffix(id, "-open") }
+
+// Info implements viewmodel.Source.
+func (in *Inspection) Info() viewmodel.Info { return in.info }
+
+// Actor implements viewmodel.Source.
+func (in *Inspection) Actor() viewmodel.Actor { return in.actor }
+
+// Components implements viewmodel.Source.
+func (in *Inspection) Components(ctx context.Context) ([]viewmodel.Component, error) {
+	comps, err := in.st.Components(ctx)
+	if err != nil {
+		return nil, err
+	}
+	in.mu.Lock()
+	scans := in.scans
+	in.mu.Unlock()
+	out := make([]viewmodel.Component, 0, len(comps))
+	for _, c := range comps {
+		vc := viewmodel.Component{ID: c.ID, CalGroup: scans[c.ID].CalGroup, MaxDepthPct: math.NaN()}
+		inds, err := in.st.Indications(ctx, c.ID)
+		if err != nil {
+			return nil, err
+		}
+		open := 0
+		for _, ind := range inds {
+			if ind.Class == string(analysis.ClassFlaw) || ind.Source == store.SourceAnalyst || ind.Class == string(analysis.ClassReview) {
+				vc.Calls++
+				if ind.Status == store.CallProposed {
+					open++
+				}
+				if ind.DepthPct != nil && (math.IsNaN(vc.MaxDepthPct) || *ind.DepthPct > vc.MaxDepthPct) {
+					vc.MaxDepthPct = *ind.DepthPct
+				}
+			}
+		}
+		switch {
+		case c.Status == store.StatusInvalidGroup:
+			vc.Status = viewmodel.InvalidGroup
+		case c.Status == store.StatusPending || c.Status == store.StatusNotExamined:
+			vc.Status = viewmodel.NotAnalysed
+		case open > 0:
+			vc.Status = viewmodel.WithIndications
+		case vc.Calls > 0:
+			vc.Status = viewmodel.Resolved
+		default:
+			vc.Status = viewmodel.Analysed
+		}
+		out = append(out, vc)
+	}
+	return out, nil
+}
+
+// Tube implements viewmodel.Source: the scan is read, calibrated (each
+// channel and mix of the group's calibration: Gain·e^{jθ}·raw) and
+// analysed for its landmarks and noise.
+func (in *Inspection) Tube(ctx context.Context, id string) (*viewmodel.Tube, error) {
+	in.mu.Lock()
+	if td, ok := in.tubes[id]; ok {
+		in.mu.Unlock()
+		return td.tube, nil
+	}
+	sc, ok := in.scans[id]
+	cal := in.cals[sc.CalGroup].cal
+	in.mu.Unlock()
+	if !ok {
+		return nil, fmt.Errorf("component %s has no scan in the record", id)
+	}
+	path := sc.Path
+	if !filepath.IsAbs(path) {
+		path = filepath.Join(filepath.Dir(in.st.Path()), path)
+	}
+	raw, err := acquire.ReadScanFile(path)
+	if err != nil {
+		return nil, err
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	td := &tubeData{cal: cal, noiseV: map[string]float64{}}
+	t := &viewmodel.Tube{ID: id, Scan: raw}
+	if cal != nil {
+		t.Scan, t.MeasureChannels, err = calibrated(raw, cal, in.proc)
+		if err != nil {
+			return nil, err
+		}
+		t.VoltsCalibrated = true
+		if _, rep, err := analysis.Analyze(ctx, raw, cal, in.proc); err == nil {
+			td.lms = rep.Landmarks
+			for _, nw := range rep.Noise {
+				td.noiseV[nw.Channel] = nw.Vpp
+			}
+			for _, l := range rep.Landmarks {
+				t.Landmarks = append(t.Landmarks, viewmodel.Landmark{Name: l.Name, PositionM: l.CentreM})
+			}
+		}
+	}
+	td.tube = t
+	in.mu.Lock()
+	in.tubes[id] = td
+	in.mu.Unlock()
+	return t, nil
+}
+
+// calibrated returns a copy of raw with every channel the calibration sets
+// up in calibrated volts and every mix added as a channel, and the names of
+// the set-up channels (detection channels first).
+func calibrated(raw *acquire.Scan, cal *calibrate.Calibration, proc *calibrate.Procedure) (*acquire.Scan, []string, error) {
+	out := *raw
+	out.Channels = nil
+	rawMap := map[string][]complex128{}
+	for _, c := range raw.Channels {
+		rawMap[c.Name] = c.Samples
+	}
+	var names []string
+	for _, d := range proc.Detection {
+		if !slices.Contains(names, d.Channel) {
+			names = append(names, d.Channel)
+		}
+	}
+	for _, c := range raw.Channels {
+		cc := cal.Channel(c.Name)
+		if cc == nil {
+			out.Channels = append(out.Channels, c) // raw volts (not set up)
+			continue
+		}
+		f := cc.Factor()
+		s := make([]complex128, len(c.Samples))
+		for i, v := range c.Samples {
+			s[i] = v * f
+		}
+		out.Channels = append(out.Channels, acquire.Channel{Name: c.Name, FreqHz: c.FreqHz, Mode: c.Mode, Samples: s})
+		if !slices.Contains(names, c.Name) {
+			names = append(names, c.Name)
+		}
+	}
+	for _, mx := range cal.Mixes {
+		cc := cal.Channel(mx.Name)
+		if cc == nil {
+			continue
+		}
+		s, err := mx.Apply(nil, rawMap)
+		if err != nil {
+			return nil, nil, fmt.Errorf("scan %q: %w", raw.Meta.Component, err)
+		}
+		f := cc.Factor()
+		for i := range s {
+			s[i] *= f
+		}
+		freq := 0.0
+		if p := raw.Channel(mx.Primary); p != nil {
+			freq = p.FreqHz
+		}
+		out.Channels = append(out.Channels, acquire.Channel{Name: mx.Name, FreqHz: freq, Mode: acquire.Differential, Samples: s})
+		if !slices.Contains(names, mx.Name) {
+			names = append(names, mx.Name)
+		}
+	}
+	return &out, names, nil
+}
+
+// Measure implements viewmodel.Source: the peak-to-peak chord and
+// maximum-rate phase of package calibrate's MeasureWindow (the same
+// function the automatic analysis uses), the depth from the channel's
+// sizing curve, the location from the nearest landmark the analysis found
+// and the S/N against the analysis's noise window.
+func (in *Inspection) Measure(ctx context.Context, t *viewmodel.Tube, channel string, w viewmodel.Window) (viewmodel.Measurement, error) {
+	in.mu.Lock()
+	td := in.tubes[t.ID]
+	in.mu.Unlock()
+	ch := t.Scan.Channel(channel)
+	if ch == nil {
+		return viewmodel.Measurement{}, fmt.Errorf("component %s has no channel %s", t.ID, channel)
+	}
+	if w.Lo < 0 || w.Hi > len(ch.Samples) || w.Len() < 2 {
+		return viewmodel.Measurement{}, fmt.Errorf("window %d…%d is outside the %d samples of %s", w.Lo, w.Hi, len(ch.Samples), t.ID)
+	}
+	posM, err := calibrate.ScanPositions(t.Scan)
+	if err != nil {
+		return viewmodel.Measurement{}, err
+	}
+	z := ch.Samples[w.Lo:w.Hi]
+	var pp measure.PeakToPeak
+	lobe := 0.0
+	if in.proc.Lobe == calibrate.LobeEarlier {
+		lobe = math.Pi
+	}
+	vpp, ph, mr, chord := calibrate.MeasureWindow(&pp, z, ch.Mode == acquire.Absolute, lobe)
+	m := viewmodel.Measurement{Channel: channel, Window: w, VppV: vpp, PhasePPDeg: ph, PhaseMaxRateDeg: mr,
+		ChordA: z[chord.I], ChordB: z[chord.J], PositionM: (posM[w.Lo] + posM[w.Hi-1]) / 2, SNR: math.NaN()}
+	if td != nil {
+		if nv := td.noiseV[channel]; nv > 0 {
+			m.SNR = vpp / nv
+		}
+		best := math.Inf(1)
+		for _, l := range td.lms {
+			if d := math.Abs(m.PositionM - l.CentreM); d < best {
+				best, m.Landmark, m.OffsetM = d, l.Name, m.PositionM-l.CentreM
+			}
+		}
+		if td.cal != nil {
+			if cc := td.cal.Channel(channel); cc != nil && cc.SizingCurve != "" {
+				if cv := cc.Curve(cc.SizingCurve); cv != nil {
+					d, err := cv.Depth(ph, vpp)
+					m.Curve = fmt.Sprintf("%s %s v%d", td.cal.ID, cv.Name, td.cal.Version)
+					m.DepthPct, m.DepthOK = d, true
+					m.DepthUncPct = curveUncertainty(cv)
+					if errors.Is(err, calibrate.ErrOutOfRange) {
+						m.DepthNote = "bound: outside the curve"
+					} else if err != nil {
+						m.DepthOK, m.DepthNote = false, err.Error()
+					}
+				}
+			}
+		}
+	}
+	if !m.DepthOK && m.DepthNote == "" {
+		m.DepthNote = "no sizing curve for " + channel
+	}
+	return m, ctx.Err()
+}
+
+// curveUncertainty is the RMS of the curve's leave-one-out residuals, the
+// uncertainty the analysis states with each depth.
+func curveUncertainty(cv *calibrate.Curve) float64 {
+	if len(cv.LOOResiduals) == 0 {
+		return math.NaN()
+	}
+	s := 0.0
+	for _, r := range cv.LOOResiduals {
+		s += r * r
+	}
+	return math.Sqrt(s / float64(len(cv.LOOResiduals)))
+}
+
+// Calls implements viewmodel.Source: the indications an analyst acts on
+// (flaw-like, for review, and analyst calls); landmarks, geometry and
+// noise indications stay in the record but are not listed.
+func (in *Inspection) Calls(ctx context.Context, component string) ([]viewmodel.Call, error) {
+	inds, err := in.st.Indications(ctx, component)
+	if err != nil {
+		return nil, err
+	}
+	var out []viewmodel.Call
+	for _, ind := range inds {
+		if !(ind.Class == string(analysis.ClassFlaw) || ind.Class == string(analysis.ClassReview) || ind.Source == store.SourceAnalyst) {
+			continue
+		}
+		c := viewmodel.Call{ID: ind.ID, Component: ind.Component, Origin: string(ind.Source), Type: ind.Class, Channel: ind.Channel,
+			Window: viewmodel.Window{Lo: ind.StartSample, Hi: ind.EndSample}, PositionM: ind.AxialM, VppV: ind.VppV,
+			PhaseDeg: ind.PhaseRad * 180 / math.Pi, State: viewmodel.CallState(ind.Status), Comment: ind.Comment, By: ind.CalledBy}
+		c.Landmark, c.OffsetM = splitLocation(ind.Location)
+		if ind.DepthPct != nil {
+			c.DepthPct, c.DepthOK = *ind.DepthPct, true
+		}
+		out = append(out, c)
+	}
+	sort.SliceStable(out, func(i, j int) bool { return out[i].PositionM < out[j].PositionM })
+	return out, nil
+}
+
+// splitLocation reads "<landmark> <offset> mm"-style text loosely: the
+// landmark is the text before the last space-separated number.
+func splitLocation(s string) (string, float64) {
+	f := strings.Fields(s)
+	for i := len(f) - 1; i >= 0; i-- {
+		var v float64
+		if _, err := fmt.Sscanf(strings.TrimSuffix(f[i], "m"), "%g", &v); err == nil {
+			unit := 1.0
+			if i+1 < len(f) && f[i+1] == "mm" {
+				unit = 1e-3
+			}
+			name := strings.Join(f[:i], " ")
+			name = strings.TrimSuffix(strings.TrimPrefix(name, "from "), " from")
+			if j := strings.LastIndex(name, " from "); j >= 0 {
+				name = name[j+6:]
+			}
+			return strings.TrimSpace(name), v * unit
+		}
+	}
+	return s, 0
+}
+
+// Decide implements viewmodel.Source with the record's call, which writes
+// the call version and its audit event in one transaction.
+func (in *Inspection) Decide(ctx context.Context, callID string, d viewmodel.Decision) error {
+	ind, err := in.st.Indication(ctx, callID)
+	if err != nil {
+		return err
+	}
+	dec := store.Decision{Status: ind.Status, Comment: d.Comment}
+	switch d.Kind {
+	case viewmodel.Accept:
+		dec.Status = store.CallAccepted
+	case viewmodel.Reject:
+		dec.Status = store.CallRejected
+	case viewmodel.Retype:
+		dec.Class = d.Type
+	case viewmodel.Comment:
+	default:
+		return fmt.Errorf("unknown decision %v", d.Kind)
+	}
+	reason := d.Comment
+	if reason == "" {
+		reason = d.Kind.String() + " at the workstation"
+	}
+	return permission(in.ss.Call(ctx, callID, dec, reason))
+}
+
+// permission maps the store's refusal onto the view-model's sentinel,
+// keeping the store's message.
+func permission(err error) error {
+	if errors.Is(err, store.ErrNotPermitted) && !errors.Is(err, viewmodel.ErrNotPermitted) {
+		return fmt.Errorf("%w (%w)", err, viewmodel.ErrNotPermitted)
+	}
+	return err
+}
+
+// AddCall implements viewmodel.Source: an analyst indication on the
+// component's scan with the measurement as it stands.
+func (in *Inspection) AddCall(ctx context.Context, component string, m viewmodel.Measurement, callType, comment string) (viewmodel.Call, error) {
+	in.mu.Lock()
+	sc, ok := in.scans[component]
+	in.mu.Unlock()
+	if !ok {
+		return viewmodel.Call{}, fmt.Errorf("component %s has no scan in the record", component)
+	}
+	ind := store.Indication{ScanID: sc.ID, Channel: m.Channel, StartSample: m.Window.Lo, EndSample: m.Window.Hi, AxialM: m.PositionM,
+		Location: fmt.Sprintf("%+.1f mm from %s", m.OffsetM*1000, m.Landmark), VppV: m.VppV, PhaseRad: m.PhasePPDeg * math.Pi / 180,
+		Class: callType, Method: "analyst window", Source: store.SourceAnalyst, Comment: comment}
+	if m.DepthOK {
+		d, u := m.DepthPct, m.DepthUncPct
+		ind.DepthPct = &d
+		if !math.IsNaN(u) {
+			ind.Uncertainty = &u
+		}
+	}
+	ids, err := in.ss.AddIndications(ctx, sc.ID, []store.Indication{ind})
+	if err != nil {
+		return viewmodel.Call{}, permission(err)
+	}
+	return viewmodel.Call{ID: ids[0], Component: component, Origin: "analyst", Type: callType}, nil
+}
+
+// CallTypes implements viewmodel.Source: the analysis classes.
+func (in *Inspection) CallTypes() []string {
+	return []string{string(analysis.ClassFlaw), string(analysis.ClassReview), string(analysis.ClassGeometry),
+		string(analysis.ClassDeposit), string(analysis.ClassLandmark), string(analysis.ClassNoise)}
+}
+
+// Events implements viewmodel.Source from the record's event log.
+func (in *Inspection) Events(ctx context.Context, subject string) ([]viewmodel.AuditEvent, error) {
+	items, err := in.st.FindItems(ctx, subject)
+	if err != nil {
+		return nil, err
+	}
+	var out []viewmodel.AuditEvent
+	for _, it := range items {
+		ev, err := in.st.History(ctx, it.Kind, it.ID)
+		if err != nil {
+			return nil, err
+		}
+		for _, e := range ev {
+			out = append(out, viewmodel.AuditEvent{Seq: e.Seq, Actor: e.Actor, Role: string(e.Role), Action: e.Action,
+				Subject: e.ItemID, Before: string(e.Before), After: string(e.After), Reason: e.Reason, At: e.At.Format("2006-01-02 15:04:05Z")})
+		}
+	}
+	sort.Slice(out, func(i, j int) bool { return out[i].Seq < out[j].Seq })
+	return out, nil
+}
+
+// Calibrations implements viewmodel.Source.
+func (in *Inspection) Calibrations(ctx context.Context) ([]viewmodel.CalibrationSummary, error) {
+	recs, err := in.st.Calibrations(ctx)
+	if err != nil {
+		return nil, err
+	}
+	newest := map[string]store.Calibration{}
+	var ids []string
+	for _, r := range recs {
+		if _, ok := newest[r.ID]; !ok {
+			ids = append(ids, r.ID)
+		}
+		if r.Version >= newest[r.ID].Version {
+			newest[r.ID] = r
+		}
+	}
+	out := make([]viewmodel.CalibrationSummary, 0, len(ids))
+	for _, id := range ids {
+		r := newest[id]
+		out = append(out, viewmodel.CalibrationSummary{ID: r.ID, Group: groupOf(r.ID), Version: r.Version, State: string(r.Status), ApprovedBy: r.Approver})
+	}
+	return out, nil
+}
+
+// Calibration implements viewmodel.Source.
+func (in *Inspection) Calibration(ctx context.Context, id string) (*viewmodel.CalibrationDetail, error) {
+	recs, err := in.st.Calibrations(ctx)
+	if err != nil {
+		return nil, err
+	}
+	var rec *store.Calibration
+	for i := range recs {
+		if recs[i].ID == id && (rec == nil || recs[i].Version > rec.Version) {
+			rec = &recs[i]
+		}
+	}
+	if rec == nil {
+		return nil, fmt.Errorf("no calibration %s in the record", id)
+	}
+	cal, err := calibrate.ParseCalibration(rec.ID, rec.Body)
+	if err != nil {
+		return nil, err
+	}
+	d := &viewmodel.CalibrationDetail{CalibrationSummary: viewmodel.CalibrationSummary{ID: rec.ID, Group: groupOf(rec.ID),
+		Version: rec.Version, State: string(rec.Status), ApprovedBy: rec.Approver}}
+	if docs, err := in.st.Standards(ctx); err == nil {
+		for _, doc := range docs {
+			if doc.ID == cal.StandardSerial {
+				var std calibrate.Standard
+				if json.Unmarshal(doc.Body, &std) == nil {
+					d.Standard = viewmodel.StandardInfo{Serial: std.Serial, Material: std.Material, CertificateID: std.CertificateID}
+				}
+			}
+		}
+	}
+	// The standard scan, when its file is known.
+	in.mu.Lock()
+	sc, ok := in.scans[cal.ScanComponent]
+	in.mu.Unlock()
+	path := ""
+	switch {
+	case in.calScans != nil:
+		path = in.calScans(rec.ID)
+	case ok:
+		path = sc.Path
+		if !filepath.IsAbs(path) {
+			path = filepath.Join(filepath.Dir(in.st.Path()), path)
+		}
+	}
+	if path != "" {
+		if raw, err := acquire.ReadScanFile(path); err == nil {
+			if s, _, err := calibrated(raw, cal, in.proc); err == nil {
+				d.Scan = s
+			}
+		}
+	}
+	prime := ""
+	if ps := in.proc.ChannelsWithRole(calibrate.RolePrime); len(ps) > 0 {
+		prime = ps[0]
+	}
+	d.Channel = prime
+	for _, lf := range cal.Located {
+		f := viewmodel.LocatedFlaw{FlawID: lf.FlawID, PositionM: lf.PositionM, Found: lf.Found, Window: viewmodel.Window{Lo: lf.Window[0], Hi: lf.Window[1]}, Note: lf.Note}
+		for _, ab := range cal.AsBuilt {
+			if ab.FlawID == lf.FlawID {
+				f.DepthPct = ab.DepthPct
+			}
+		}
+		if cc := cal.Channel(prime); cc != nil {
+			if m := cc.Measurement(lf.FlawID); m != nil {
+				f.VppV, f.PhaseDeg = m.Vpp, m.PhaseDeg
+			}
+		}
+		d.Located = append(d.Located, f)
+	}
+	for _, cc := range cal.Channels {
+		for _, cv := range cc.Curves {
+			vc := viewmodel.Curve{Name: cc.Channel + " " + cv.Name, XName: "phase", XUnit: "°"}
+			if cv.Variable == calibrate.VarAmplitude {
+				vc.XName, vc.XUnit = "amplitude", "V"
+			}
+			for i, p := range cv.Points {
+				x := p.PhaseDeg
+				if cv.Variable == calibrate.VarAmplitude {
+					x = p.Vpp
+				}
+				fit, _ := cv.Depth(p.PhaseDeg, p.Vpp)
+				cp := viewmodel.CurvePoint{X: x, DepthPct: p.DepthPct, FitPct: fit, ResidualPct: p.DepthPct - fit, Label: p.FlawID}
+				if i < len(cv.LOOResiduals) {
+					cp.ResidualPct = cv.LOOResiduals[i]
+				}
+				vc.Points = append(vc.Points, cp)
+			}
+			for k := range 61 {
+				x := cv.XMin + (cv.XMax-cv.XMin)*float64(k)/60
+				ph, vpp := x, cv.VppMin
+				if cv.Variable == calibrate.VarAmplitude {
+					ph, vpp = 0, x
+				}
+				if dd, err := cv.Depth(ph, vpp); err == nil {
+					vc.FitX, vc.FitDepthPct = append(vc.FitX, x), append(vc.FitDepthPct, dd)
+				}
+			}
+			vc.Warning = strings.Join(cv.Warnings, "; ")
+			d.Curves = append(d.Curves, vc)
+		}
+	}
+	checks, err := in.st.GroupChecks(ctx)
+	if err != nil {
+		return nil, err
+	}
+	for _, g := range checks {
+		if g.Group != d.Group {
+			continue
+		}
+		for _, c := range g.Checks {
+			d.Checks = append(d.Checks, viewmodel.Check{Name: c.Reference + " " + c.Quantity, Pass: c.Pass,
+				Detail: fmt.Sprintf("measured %.2f %s, expected %.2f ± %.2f", c.Measured, c.Unit, c.Expected, c.Tolerance)})
+		}
+		verdict := "group valid"
+		if !g.Valid {
+			verdict = fmt.Sprintf("group INVALID: %d components to re-test", len(g.Retest))
+		}
+		d.Checks = append(d.Checks, viewmodel.Check{Name: "closing check " + fmt.Sprint(g.Check), Pass: g.Valid, Detail: verdict})
+	}
+	return d, nil
+}
+
+// Approve implements viewmodel.Source: the record refuses any role but
+// Level III, with its own message.
+func (in *Inspection) Approve(ctx context.Context, id, reason string) error {
+	cs, err := in.Calibrations(ctx)
+	if err != nil {
+		return err
+	}
+	for _, c := range cs {
+		if c.ID == id {
+			if reason == "" {
+				reason = "approved at the workstation"
+			}
+			return permission(in.ss.ApproveCalibration(ctx, id, c.Version, reason))
+		}
+	}
+	return fmt.Errorf("no calibration %s in the record", id)
+}
+
+// Export implements viewmodel.Source.
+func (in *Inspection) Export(ctx context.Context, dir string, formats []string) ([]string, error) {
+	if in.report != nil {
+		return in.report(ctx, in.st, dir, formats)
+	}
+	return in.writeReport(ctx, dir, formats)
+}
+
+// Store returns the open record (for tests and the command line).
+func (in *Inspection) Store() *store.Store { return in.st }
+
+// Close closes the record.
+func (in *Inspection) Close() error {
+	in.mu.Lock()
+	defer in.mu.Unlock()
+	if in.closed {
+		return nil
+	}
+	in.closed = true
+	return in.st.Close()
+}
