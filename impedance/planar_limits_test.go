@@ -321,3 +321,34 @@ func TestPlanarReferenceTable(t *testing.T) {
 		}
 	}
 }
+
+// TestHighFrequencyLimit checks the surface-impedance limit (MODEL.md
+// §4.3): with φ ≈ −1 + 2α/α1, ΔZ − ΔZ_PEC ≈ (1+j)ωδ·scale·∫χ²(…)²/α⁵ dα,
+// so the imaginary part of the ratio → 1 as δ → 0 and the real part
+// differs by a frequency-independent second-order term (≈ −144 Ω for T15,
+// MODEL.md §4.3 table: 7729.01 − 7873.07 at 1 MHz, 24752.2 − 24896.8 at
+// 10 MHz).
+func TestHighFrequencyLimit(t *testing.T) {
+	t.Parallel()
+	m := mustModel(t, coilT15)
+	const z1, sigma = 0.88e-3, 30.6e6
+	pec, _ := m.integrate(z1, func(float64) complex128 { return -1 })
+	first, _ := m.integrate(z1, func(a float64) complex128 { return complex(a, 0) })
+	var offsets []float64
+	for _, tc := range []struct{ f, tol float64 }{{1e6, 2e-4}, {1e7, 3e-5}} {
+		om := 2 * math.Pi * tc.f
+		r, err := m.Impedance(tc.f, z1, halfSpace(sigma, 1))
+		if err != nil {
+			t.Fatal(err)
+		}
+		diff := r.DZOhm - complex(0, om*m.scale)*pec
+		est := complex(1, 1) * complex(om*m.scale*SkinDepthM(tc.f, sigma, 1)*real(first), 0)
+		if got := imag(diff) / imag(est); math.Abs(got-1) > tc.tol {
+			t.Errorf("%g Hz: Im(ΔZ − ΔZ_PEC)/estimate = %.6f, want 1 ± %g", tc.f, got, tc.tol)
+		}
+		offsets = append(offsets, real(diff)-real(est))
+	}
+	if math.Abs(offsets[0]-offsets[1]) > 1 || math.Abs(offsets[1]+144.5) > 1.5 {
+		t.Errorf("second-order real offsets %v Ω, want equal and ≈ −144 Ω (MODEL.md §4.3)", offsets)
+	}
+}
