@@ -909,17 +909,12 @@ func runCondMeasure(_ context.Context, e *env, fs *flag.FlagSet, args []string) 
 		if solve&impedance.SolveThickness != 0 && !(t > 0) {
 			opt.Specimen.ThicknessM = 1e-3
 		}
-		inv, err := cal.Invert(m, rd, opt)
-		if err != nil {
-			res.failed = true
-			res.Flags = append(res.Flags, "failed: "+err.Error())
+		inv, ok := invertInto(&res, cal, m, rd, opt)
+		if !ok {
 			failed++
 			results = append(results, res)
 			continue
 		}
-		res.MSPerM, res.UMSPerM = inv.ConductivitySPerM/1e6, inv.UConductivitySPerM/1e6
-		res.IACS, res.UIACS = inv.ConductivitySPerM/58e4, inv.UConductivitySPerM/58e4
-		res.LiftoffUM, res.ULiftUM = inv.ExtraLiftoffM*1e6, inv.UExtraLiftoffM*1e6
 		if solve&impedance.SolveThickness != 0 {
 			v, u := inv.ThicknessM*1e3, inv.UThicknessM*1e3
 			res.ThickMM, res.UThickMM = &v, &u
@@ -964,6 +959,21 @@ func runCondMeasure(_ context.Context, e *env, fs *flag.FlagSet, args []string) 
 		return dataError(fmt.Errorf("%d of %d spots could not be inverted (see their flags)", failed, len(results)))
 	}
 	return nil
+}
+
+// invertInto inverts the readings of one spot and fills res with the
+// result; on failure it marks res failed with the reason and returns false.
+func invertInto(res *spotResult, cal *impedance.Calibration, m impedance.PlanarForward, rd []impedance.Reading, opt impedance.InvertOptions) (impedance.Inversion, bool) {
+	inv, err := cal.Invert(m, rd, opt)
+	if err != nil {
+		res.failed = true
+		res.Flags = append(res.Flags, "failed: "+err.Error())
+		return inv, false
+	}
+	res.MSPerM, res.UMSPerM = inv.ConductivitySPerM/1e6, inv.UConductivitySPerM/1e6
+	res.IACS, res.UIACS = inv.ConductivitySPerM/58e4, inv.UConductivitySPerM/58e4
+	res.LiftoffUM, res.ULiftUM = inv.ExtraLiftoffM*1e6, inv.UExtraLiftoffM*1e6
+	return inv, true
 }
 
 // condFlags lists the conditions that qualify a conductivity result.
@@ -1030,17 +1040,12 @@ func runCoatingMeasure(_ context.Context, e *env, fs *flag.FlagSet, args []strin
 			rd = append(rd, impedance.Reading{FreqHz: r.FreqHz, V: r.V})
 			res.FreqsHz = append(res.FreqsHz, r.FreqHz)
 		}
-		inv, err := cal.Invert(m, rd, opt)
-		if err != nil {
-			res.failed = true
-			res.Flags = append(res.Flags, "failed: "+err.Error())
+		inv, ok := invertInto(&res, cal, m, rd, opt)
+		if !ok {
 			failed++
 			results = append(results, res)
 			continue
 		}
-		res.MSPerM, res.UMSPerM = inv.ConductivitySPerM/1e6, inv.UConductivitySPerM/1e6
-		res.IACS, res.UIACS = inv.ConductivitySPerM/58e4, inv.UConductivitySPerM/58e4
-		res.LiftoffUM, res.ULiftUM = inv.ExtraLiftoffM*1e6, inv.UExtraLiftoffM*1e6
 		// ASTM E376 Note 2: ±10 % of the thickness or ±2.5 µm, whichever is greater.
 		tol := math.Max(0.1*math.Abs(res.LiftoffUM), 2.5)
 		res.E376UM = &tol
