@@ -36,11 +36,11 @@ func handBuilt() *reports.Inspection {
 		Indications: []reports.Indication{
 			{Indication: store.Indication{ID: "S-1/1", ScanID: "S-1", Component: "R1C1", Channel: "F1-diff", StartSample: 100, EndSample: 140,
 				AxialM: 0.8125, Location: "TSP-2 +12.5 mm", VppV: 1.84, PhaseRad: 1.9198621771937625, DepthPct: &depth, Uncertainty: &unc,
-				Class: "VOL", Method: "phase curve", Source: store.SourceAuto, CurveID: "CAL-A", CurveVersion: 1,
+				Class: "flaw-like", Method: "phase curve", Source: store.SourceAuto, CurveID: "CAL-A", CurveVersion: 1,
 				Status: store.CallAccepted, Comment: `says "check", later`, CallVersion: 2, CalledBy: "Tomas Brandt",
 				CalledRole: store.RoleLevel2, CalledAt: at}},
 			{Indication: store.Indication{ID: "S-2/1", ScanID: "S-2", Component: "R1C2, hot leg", Channel: "MIX-1", StartSample: 5, EndSample: 9,
-				AxialM: -0.25, Location: "TSH\n+310 mm", VppV: 0.3, PhaseRad: 0, Class: "NQI", Method: "none", Source: store.SourceAnalyst,
+				AxialM: -0.25, Location: "TSH\n+310 mm", VppV: 0.3, PhaseRad: 0, Class: "analyst-review", Method: "none", Source: store.SourceAnalyst,
 				Status: store.CallRejected, Comment: "multi\r\nline,\ttab and \u202eRTL\u202c", CallVersion: 1,
 				CalledBy: "Kai Ober", CalledRole: store.RoleLevel2, CalledAt: at}},
 		},

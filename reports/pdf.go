@@ -531,8 +531,8 @@ func (p *pdfw) indicationSection() {
 	if len(rows) == 0 {
 		return
 	}
-	p.table([]column{{"Indication", 22, "L"}, {"Tube", 14, "L"}, {"Location", 25, "L"}, {"Channel", 15, "L"},
-		{"Vpp (V)", 12, "R"}, {"Phase (°)", 12, "R"}, {"%TW", 14, "R"}, {"Class", 12, "L"}, {"Method", 18, "L"},
+	p.table([]column{{"Indication", 20, "L"}, {"Tube", 13, "L"}, {"Location", 24, "L"}, {"Channel", 14, "L"},
+		{"Vpp (V)", 11, "R"}, {"Phase (°)", 11, "R"}, {"%TW", 14, "R"}, {"Class", 20, "L"}, {"Method", 17, "L"},
 		{"Curve", 14, "L"}, {"Analyst call", 22, "L"}}, rows)
 }
 

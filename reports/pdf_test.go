@@ -57,7 +57,7 @@ func TestPDFContent(t *testing.T) {
 		"R3C1 invalid group: re-test",
 		"TH-100 phase: 52.5 deg (expected 40 ± 5)",
 		"3 indications recorded; 2 reportable",
-		"v4 resolution: accepted, class VOL, by Rhea Lind (level3)",
+		"v4 resolution: accepted, class flaw-like, by Rhea Lind (level3)",
 	} {
 		if !strings.Contains(all, want) {
 			t.Errorf("report text lacks %q", want)
@@ -66,8 +66,8 @@ func TestPDFContent(t *testing.T) {
 	// The indication table: one row per reportable indication, with tube,
 	// location, channel, Vpp, phase (deg), %TW, class, method, curve and call.
 	rows := []*regexp.Regexp{
-		regexp.MustCompile(`S-R1C2/1 R1C2 TSP-2 \+12\.5 mm F1-diff 1\.84 110 52 ± 8 VOL phase curve CAL-A v1 accepted`),
-		regexp.MustCompile(`S-R3C1/1 R3C1 TSH \+310 mm MIX-1 3\.10 63 78 ± 9 WEAR phase curve CAL-A v1 accepted`),
+		regexp.MustCompile(`S-R1C2/1 R1C2 TSP-2 \+12\.5 mm F1-diff 1\.84 110 52 ± 8 flaw-like phase curve CAL-A v1 accepted`),
+		regexp.MustCompile(`S-R3C1/1 R3C1 TSH \+310 mm MIX-1 3\.10 63 78 ± 9 geometry phase curve CAL-A v1 accepted`),
 	}
 	for _, re := range rows {
 		if !re.MatchString(all) {

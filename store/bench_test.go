@@ -15,7 +15,7 @@ func benchIndications(n int) []store.Indication {
 	for i := range inds {
 		inds[i] = store.Indication{Channel: "F1-diff", StartSample: 10 * i, EndSample: 10*i + 8, AxialM: 0.001 * float64(i),
 			Location: fmt.Sprintf("TSP-%d +%d mm", i%9, i%100), VppV: 0.1 + 1e-4*float64(i), PhaseRad: 1.5,
-			DepthPct: storetest.Depth(float64(i % 100)), Class: "VOL", Method: "phase curve", Source: store.SourceAuto}
+			DepthPct: storetest.Depth(float64(i % 100)), Class: "flaw-like", Method: "phase curve", Source: store.SourceAuto}
 	}
 	return inds
 }

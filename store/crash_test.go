@@ -39,7 +39,7 @@ func TestHelperWriter(t *testing.T) {
 	batch := make([]store.Indication, crashBatch)
 	for i := range batch {
 		batch[i] = store.Indication{Channel: "F1-diff", StartSample: 10 * i, EndSample: 10*i + 8, AxialM: 0.01 * float64(i),
-			Location: "TSP-1 +" + strconv.Itoa(i) + " mm", VppV: 0.1 + 0.001*float64(i), PhaseRad: 1.5, Class: "NQI",
+			Location: "TSP-1 +" + strconv.Itoa(i) + " mm", VppV: 0.1 + 0.001*float64(i), PhaseRad: 1.5, Class: "analyst-review",
 			Method: "auto", Source: store.SourceAuto, Comment: "crash-test batch"}
 	}
 	for n := 1; n <= 100000; n++ {

@@ -51,7 +51,7 @@ func Example() {
 	}
 	depth := 38.0
 	ids, err := an.AddIndications(ctx, "S-1", []store.Indication{{Channel: "F1-diff", StartSample: 1200, EndSample: 1260,
-		AxialM: 0.8125, Location: "TSP-2 +12.5 mm", VppV: 1.84, PhaseRad: 1.92, DepthPct: &depth, Class: "VOL",
+		AxialM: 0.8125, Location: "TSP-2 +12.5 mm", VppV: 1.84, PhaseRad: 1.92, DepthPct: &depth, Class: "flaw-like",
 		Method: "phase curve", Source: store.SourceAuto}})
 	if err != nil {
 		fmt.Println(err)

@@ -26,7 +26,7 @@ func TestIndependentVerifier(t *testing.T) {
 	// non-ASCII text, an unsized indication.
 	if _, err := s.As(storetest.ActorOf(storetest.Primary)).AddIndications(ctx, "S-R1C1", []store.Indication{
 		{Channel: "F1-abs", StartSample: 0, EndSample: 3, AxialM: negZero(), Location: "ΔTSP-1 µ ° Ω «x»", VppV: 1e300,
-			PhaseRad: -3.141592653589793, Class: "NQI", Method: "none", Source: store.SourceAnalyst, Comment: "line 1\nline 2\ttab"},
+			PhaseRad: -3.141592653589793, Class: "analyst-review", Method: "none", Source: store.SourceAnalyst, Comment: "line 1\nline 2\ttab"},
 		{Channel: "F1-abs", StartSample: 5, EndSample: 6, AxialM: 5e-324, VppV: 0, PhaseRad: 0, DepthPct: storetest.Depth(-0.0),
 			Uncertainty: storetest.Depth(1.0 / 3), Source: store.SourceAuto},
 	}); err != nil {

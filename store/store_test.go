@@ -54,9 +54,9 @@ func TestBuildAndQuery(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if ind.CallVersion != 4 || !ind.Resolved || ind.Class != "VOL" || ind.CalledBy != storetest.Resolver.Name ||
+	if ind.CallVersion != 4 || !ind.Resolved || ind.Class != "flaw-like" || ind.CalledBy != storetest.Resolver.Name ||
 		ind.Component != "R1C2" || ind.DepthPct == nil || *ind.DepthPct != 52 {
-		t.Errorf("indication S-R1C2/1 = %+v; want call v4 resolved VOL by %s, depth 52", ind, storetest.Resolver.Name)
+		t.Errorf("indication S-R1C2/1 = %+v; want call v4 resolved flaw-like by %s, depth 52", ind, storetest.Resolver.Name)
 	}
 	calls, err := s.Calls(ctx, "S-R1C2/1")
 	if err != nil {
@@ -72,8 +72,8 @@ func TestBuildAndQuery(t *testing.T) {
 			t.Errorf("call %d: kind %q version %d; want %q version %d", i, c.Kind, c.Version, kinds[i], i+1)
 		}
 	}
-	if calls[0].Class != "VOL" || calls[2].Class != "PIT" {
-		t.Errorf("call classes %q, %q; want original VOL and amended PIT kept", calls[0].Class, calls[2].Class)
+	if calls[0].Class != "flaw-like" || calls[2].Class != "deposit" {
+		t.Errorf("call classes %q, %q; want original flaw-like and amended deposit kept", calls[0].Class, calls[2].Class)
 	}
 	all, err := s.Indications(ctx, "")
 	if err != nil {
@@ -98,9 +98,9 @@ func TestBuildAndQuery(t *testing.T) {
 	if err != nil || len(hist) != 4 {
 		t.Fatalf("History = %d events, %v; want 4", len(hist), err)
 	}
-	if string(hist[0].Before) != "null" || !strings.Contains(string(hist[2].Before), `"class":"VOL"`) ||
-		!strings.Contains(string(hist[2].After), `"class":"PIT"`) || hist[2].Reason == "" {
-		t.Errorf("history event 3: before %s, after %s, reason %q; want VOL→PIT with a reason", hist[2].Before, hist[2].After, hist[2].Reason)
+	if string(hist[0].Before) != "null" || !strings.Contains(string(hist[2].Before), `"class":"flaw-like"`) ||
+		!strings.Contains(string(hist[2].After), `"class":"deposit"`) || hist[2].Reason == "" {
+		t.Errorf("history event 3: before %s, after %s, reason %q; want flaw-like→deposit with a reason", hist[2].Before, hist[2].After, hist[2].Reason)
 	}
 	for _, c := range []struct {
 		id   string

@@ -35,7 +35,7 @@ func TestTamper(t *testing.T) {
 		{"indication amplitude", "UPDATE indications SET vpp_v = 0.5 WHERE ind_id = 'S-R1C2/1'", "indications", "ind_id = 'S-R1C2/1'", 0},
 		{"indication depth removed", "UPDATE indications SET depth_pct = NULL WHERE ind_id = 'S-R3C1/1'", "indications", "ind_id = 'S-R3C1/1'", 0},
 		{"indication tiny float change", "UPDATE indications SET phase_rad = phase_rad + 1e-15 WHERE ind_id = 'S-R1C2/1'", "indications", "ind_id = 'S-R1C2/1'", 0},
-		{"call class", "UPDATE calls SET class = 'NDD' WHERE class = 'PIT'", "calls", "class = 'PIT'", 0},
+		{"call class", "UPDATE calls SET class = 'noise' WHERE class = 'deposit'", "calls", "class = 'deposit'", 0},
 		{"release head", "UPDATE releases SET head_hash = '" + zeros64 + "'", "releases", "seq > 0", 0},
 		{"event reason", "UPDATE events SET reason = 'other' WHERE seq = 30", "", "", 30},
 		{"event after", "UPDATE events SET after = '{}' WHERE seq = 5", "", "", 5},
@@ -43,7 +43,7 @@ func TestTamper(t *testing.T) {
 		{"event time", "UPDATE events SET at = '2026-01-01T00:00:00Z' WHERE seq = 20", "", "", 20},
 		{"event row hash", "UPDATE events SET row_hash = '" + zeros64 + "' WHERE seq = 3", "", "", 3},
 		{"event deleted", "DELETE FROM events WHERE seq = 7", "", "", 8},
-		{"row deleted", "DELETE FROM calls WHERE class = 'PIT'", "calls", "class = 'PIT'", 0},
+		{"row deleted", "DELETE FROM calls WHERE class = 'deposit'", "calls", "class = 'deposit'", 0},
 		{"row added without event", "INSERT INTO calls (ind_id, version, kind, status, class, comment, reason, recorded_at, recorded_by, recorded_role) " +
 			"VALUES ('S-R1C2/2', 9, 'call', 'accepted', 'x', '', 'r', '2026-11-30T09:00:00Z', 'Tomas Brandt', 'level2')", "", "", 0},
 		{"newest event deleted", "DELETE FROM events WHERE seq = (SELECT max(seq) FROM events)", "", "", 0},

@@ -59,7 +59,7 @@ func TestRecordsCommands(t *testing.T) {
 		{"show person json", []string{"records", "show", "--json", db, "person:Rhea Lind"}, exitOK, []string{`"role": "level3"`}, ""},
 		{"show missing", []string{"records", "show", db, "indication:nope"}, exitData, nil, `no indication "nope"`},
 		{"history", []string{"records", "history", db, "S-R1C2/1"}, exitOK,
-			[]string{"4 events", "Kai Ober (level2)", `class: "VOL" → "PIT"`, "reason: signal shape matches volumetric reference"}, ""},
+			[]string{"4 events", "Kai Ober (level2)", `class: "flaw-like" → "deposit"`, "reason: signal shape matches the flat-bottom-hole reference"}, ""},
 		{"verify", []string{"records", "verify", db}, exitOK, []string{"verifies: 51 events"}, ""},
 		{"verify json", []string{"records", "verify", "--json", db}, exitOK, []string{`"ok": true`}, ""},
 		{"verify missing file", []string{"records", "verify", filepath.Join(t.TempDir(), "none.whorl")}, exitData, nil, "no such file"},
@@ -85,7 +85,7 @@ func TestRecordsCommands(t *testing.T) {
 func TestRecordsVerifyTampered(t *testing.T) {
 	t.Parallel()
 	db := record(t)
-	if err := storetest.Tamper(db, "UPDATE calls SET class = 'NDD' WHERE class = 'PIT'"); err != nil {
+	if err := storetest.Tamper(db, "UPDATE calls SET class = 'noise' WHERE class = 'deposit'"); err != nil {
 		t.Fatal(err)
 	}
 	code, out, errs := runCmd(t, "records", "verify", db)

@@ -58,8 +58,8 @@ func TestReportSignals(t *testing.T) {
 		t.Fatal(err)
 	}
 	if _, err := an.AddIndications(ctx, "S-R1C1", []store.Indication{{Channel: "F1-diff", StartSample: 180, EndSample: 220,
-		AxialM: 0.2, Location: "TSP-1 +3 mm", VppV: 1.2, PhaseRad: 1.9, Class: "VOL", Method: "amplitude", Source: store.SourceAuto},
-		{Channel: "MIX-1", StartSample: 180, EndSample: 220, VppV: 0.4, PhaseRad: 1, Class: "VOL", Method: "amplitude", Source: store.SourceAuto}}); err != nil {
+		AxialM: 0.2, Location: "TSP-1 +3 mm", VppV: 1.2, PhaseRad: 1.9, Class: "flaw-like", Method: "amplitude", Source: store.SourceAuto},
+		{Channel: "MIX-1", StartSample: 180, EndSample: 220, VppV: 0.4, PhaseRad: 1, Class: "flaw-like", Method: "amplitude", Source: store.SourceAuto}}); err != nil {
 		t.Fatal(err)
 	}
 	s.Close()

@@ -132,16 +132,16 @@ func Build(ctx context.Context, path string, now func() time.Time) (*store.Store
 		if c.ID == "R1C2" {
 			inds = []store.Indication{
 				{Channel: "F1-diff", StartSample: 1200, EndSample: 1260, AxialM: 0.8125, Location: "TSP-2 +12.5 mm",
-					VppV: 1.84, PhaseRad: 1.92, DepthPct: Depth(52), Uncertainty: Depth(8), Class: "VOL", Method: "phase curve",
+					VppV: 1.84, PhaseRad: 1.92, DepthPct: Depth(52), Uncertainty: Depth(8), Class: "flaw-like", Method: "phase curve",
 					Source: store.SourceAuto, CurveID: "CAL-A", CurveVersion: 1},
 				{Channel: "F1-diff", StartSample: 3400, EndSample: 3450, AxialM: 2.301, Location: "TSP-5 -4.0 mm",
-					VppV: 0.41, PhaseRad: 2.60, Class: "NQI", Method: "none", Source: store.SourceAuto,
+					VppV: 0.41, PhaseRad: 2.60, Class: "analyst-review", Method: "none", Source: store.SourceAuto,
 					Comment: `small signal, "check" at next outage, see log 7`},
 			}
 		}
 		if c.ID == "R3C1" {
 			inds = []store.Indication{{Channel: "MIX-1", StartSample: 800, EndSample: 850, AxialM: 0.4, Location: "TSH +310 mm",
-				VppV: 3.1, PhaseRad: 1.1, DepthPct: Depth(78), Uncertainty: Depth(9), Class: "WEAR", Method: "phase curve",
+				VppV: 3.1, PhaseRad: 1.1, DepthPct: Depth(78), Uncertainty: Depth(9), Class: "geometry", Method: "phase curve",
 				Source: store.SourceAnalyst, CurveID: "CAL-A", CurveVersion: 1, Status: store.CallAccepted}}
 		}
 		if _, err := an.AddIndications(ctx, "S-"+c.ID, inds); err != nil {
@@ -152,12 +152,12 @@ func Build(ctx context.Context, path string, now func() time.Time) (*store.Store
 	if err := an.Call(ctx, "S-R1C2/1", store.Decision{Status: store.CallAccepted}, "confirmed on impedance plane"); err != nil {
 		return fail(err)
 	}
-	if err := sec.Call(ctx, "S-R1C2/1", store.Decision{Status: store.CallAccepted, Class: "PIT", Comment: "pit-like, not volumetric"},
+	if err := sec.Call(ctx, "S-R1C2/1", store.Decision{Status: store.CallAccepted, Class: "deposit", Comment: "reads as a deposit, not wall loss"},
 		"secondary analysis disagrees on class"); err != nil {
 		return fail(err)
 	}
-	if err := s.As(ActorOf(Resolver)).Resolve(ctx, "S-R1C2/1", store.Decision{Status: store.CallAccepted, Class: "VOL"},
-		"signal shape matches volumetric reference"); err != nil {
+	if err := s.As(ActorOf(Resolver)).Resolve(ctx, "S-R1C2/1", store.Decision{Status: store.CallAccepted, Class: "flaw-like"},
+		"signal shape matches the flat-bottom-hole reference"); err != nil {
 		return fail(err)
 	}
 	if err := an.Call(ctx, "S-R1C2/2", store.Decision{Status: store.CallRejected, Comment: "probe wobble"}, "noise, not a flaw"); err != nil {
