@@ -27,6 +27,7 @@ type Analyzer struct {
 	spread []float64
 	peaks  []int
 	pp     measure.PeakToPeak
+	spr    measure.Spreader
 	tmp    []float64
 	// residue holds each mix's residue templates as complex samples.
 	residue map[string]*residueTemplate
@@ -212,7 +213,7 @@ func (a *Analyzer) Analyze(ctx context.Context, scan *acquire.Scan) ([]Indicatio
 				thr = math.Min(thr, alarmFloor(al))
 			}
 		}
-		a.spread = measure.Spread(a.spread, z, w)
+		a.spread = a.spr.Spread(a.spread, z, w)
 		a.peaks = measure.Peaks(a.peaks[:0], a.spread, thr, w)
 		for _, c := range a.peaks {
 			lo := max(0, c-w/2)

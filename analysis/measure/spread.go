@@ -18,6 +18,20 @@ import "math"
 // dst is reused when it has room (it may be nil) and is returned.
 // Spread panics if w < 1.
 func Spread(dst []float64, z []complex128, w int) []float64 {
+	var s Spreader
+	return s.Spread(dst, z, w)
+}
+
+// Spreader computes Spread reusing its queue storage between calls; its
+// zero value is ready to use. A Spreader must not be used by two
+// goroutines at once.
+type Spreader struct {
+	buf []int
+	s   spreader
+}
+
+// Spread is the function Spread with reused storage.
+func (sp *Spreader) Spread(dst []float64, z []complex128, w int) []float64 {
 	if w < 1 {
 		panic("measure: spread window shorter than one sample")
 	}
@@ -29,8 +43,11 @@ func Spread(dst []float64, z []complex128, w int) []float64 {
 	if n == 0 {
 		return dst
 	}
-	var s spreader
-	s.init(n)
+	if cap(sp.buf) < 4*n {
+		sp.buf = make([]int, 4*n)
+	}
+	s := &sp.s
+	s.init(sp.buf[:4*n], n)
 	half := w / 2
 	// Window for centre i is [i−half, i−half+w) ∩ [0, n).
 	hi := 0 // next sample to push
@@ -53,8 +70,8 @@ type spreader struct {
 	hMaxX, hMinX, hMaxY, hMinY int
 }
 
-func (s *spreader) init(n int) {
-	buf := make([]int, 0, 4*n)
+func (s *spreader) init(buf []int, n int) {
+	*s = spreader{}
 	s.maxX, s.minX, s.maxY, s.minY = buf[0:0:n], buf[n:n:2*n], buf[2*n:2*n:3*n], buf[3*n:3*n:4*n]
 }
 
