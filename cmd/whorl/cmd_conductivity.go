@@ -275,34 +275,16 @@ func condProbe(fs *flag.FlagSet) (impedance.Probe, error) {
 	return p, nil
 }
 
-// condLayer parses T:SIGMA[:MUR].
+// condLayer parses T:SIGMA[:MUR] (as --layer of model plate) into a
+// specimen: a thickness of inf gives a half-space.
 func condLayer(s string) (impedance.Specimen, error) {
-	parts := strings.Split(s, ":")
-	if len(parts) < 2 || len(parts) > 3 {
-		return impedance.Specimen{}, usagef("--layer %q: expected T:SIGMA[:MUR], e.g. inf:17.4MS/m or 0.1mm:100%%IACS:1", s)
+	l, err := parseLayerSpec(s)
+	if err != nil {
+		return impedance.Specimen{}, err
 	}
-	var sp impedance.Specimen
-	if strings.EqualFold(strings.TrimSpace(parts[0]), "inf") {
-		sp.ThicknessM = 0
-	} else {
-		t, err := units.Parse(units.Length, parts[0])
-		if err != nil || !(t > 0) {
-			return sp, usagef("--layer %q: thickness: expected a positive length or inf", s)
-		}
-		sp.ThicknessM = t
-	}
-	sig, err := units.Parse(units.Conductivity, parts[1])
-	if err != nil || !(sig > 0) {
-		return sp, usagef("--layer %q: conductivity: expected a positive value such as 17.4MS/m or 43%%IACS", s)
-	}
-	sp.ConductivitySPerM = sig
-	sp.RelPermeability = 1
-	if len(parts) == 3 {
-		mur, err := strconv.ParseFloat(strings.TrimSpace(parts[2]), 64)
-		if err != nil || !(mur >= 1) || math.IsInf(mur, 0) {
-			return sp, usagef("--layer %q: relative permeability: expected a number ≥ 1", s)
-		}
-		sp.RelPermeability = mur
+	sp := impedance.Specimen{ConductivitySPerM: l.ConductivitySPerM, RelPermeability: l.RelPermeability}
+	if !math.IsInf(l.ThicknessM, 1) {
+		sp.ThicknessM = l.ThicknessM
 	}
 	return sp, nil
 }
