@@ -344,37 +344,48 @@ func demodSimultaneous(rec *acquire.RawRecord, opt DemodOptions) (*acquire.Scan,
 		err error
 	}
 	res := make([]result, len(rec.ExcitationHz))
-	tone := func(dm *demodulator, k int) {
-		f := rec.ExcitationHz[k]
-		z, err := dm.run(nil, rec.VoltageV, f, fs)
+	// tones demodulates the tones ks in one pass over the voltage (and one
+	// over the reference), so the record is read from memory once.
+	tones := func(dm *demodulator, ks []int) {
+		freqs := make([]float64, len(ks))
+		for i, k := range ks {
+			freqs[i] = rec.ExcitationHz[k]
+		}
+		zs, err := dm.run(rec.VoltageV, freqs, fs)
 		if err != nil {
-			res[k].err = err
+			res[ks[0]].err = err
 			return
 		}
-		tr := ToneReport{FreqHz: f, Channel: ChannelLabel(rec.Coil, f)}
+		var rs [][]complex128
 		if rec.ReferenceV != nil {
-			r, err := dm.run(nil, rec.ReferenceV, f, fs)
-			if err != nil {
-				res[k].err = err
+			if rs, err = dm.run(rec.ReferenceV, freqs, fs); err != nil {
+				res[ks[0]].err = err
 				return
 			}
-			if err := referTo(z, r, f, &tr); err != nil {
-				res[k].err = err
-				return
-			}
-		} else {
-			tr.EstimatedPhaseRad = cmplx.Phase(mean(z))
 		}
-		tr.MeanV = mean(z)
-		res[k] = result{tr: tr, z: z}
+		for i, k := range ks {
+			f, z := freqs[i], zs[i]
+			tr := ToneReport{FreqHz: f, Channel: ChannelLabel(rec.Coil, f)}
+			if rs != nil {
+				if err := referTo(z, rs[i], f, &tr); err != nil {
+					res[k].err = err
+					return
+				}
+			} else {
+				tr.EstimatedPhaseRad = cmplx.Phase(mean(z))
+			}
+			tr.MeanV = mean(z)
+			res[k] = result{tr: tr, z: z}
+		}
 	}
 	workers := min(max(opt.Workers, 1), len(rec.ExcitationHz))
 	if workers == 1 {
-		for k := range rec.ExcitationHz {
-			tone(dm, k)
+		all := make([]int, len(rec.ExcitationHz))
+		for k := range all {
+			all[k] = k
 		}
+		tones(dm, all)
 	} else {
-		next := make(chan int)
 		var wg sync.WaitGroup
 		for w := 0; w < workers; w++ {
 			wdm := dm
@@ -382,18 +393,16 @@ func demodSimultaneous(rec *acquire.RawRecord, opt DemodOptions) (*acquire.Scan,
 				wdm = newDemodulator(d1, d2, sos)
 				wdm.trim = trim
 			}
+			var ks []int
+			for k := w; k < len(rec.ExcitationHz); k += workers {
+				ks = append(ks, k)
+			}
 			wg.Add(1)
 			go func() {
 				defer wg.Done()
-				for k := range next {
-					tone(wdm, k)
-				}
+				tones(wdm, ks)
 			}()
 		}
-		for k := range rec.ExcitationHz {
-			next <- k
-		}
-		close(next)
 		wg.Wait()
 	}
 	for k, r := range res {
@@ -533,11 +542,8 @@ type demodulator struct {
 	// to splineOrder·d1 so that each input phase p uses taps[p+k·d1].
 	taps []float64
 	ff   *FiltFilter
-	buf  []complex128
 	// trim is the number of output samples dropped at each end.
 	trim int
-	// ctaps holds the complex taps of the current tone, one row per phase.
-	ctaps [][2 * splineOrder]float64
 }
 
 func newDemodulator(d1, d2 int, sos SOS) *demodulator {
@@ -572,37 +578,41 @@ func (dm *demodulator) stage1Len(n int) int {
 	return (n-span)/dm.d1 + 1
 }
 
-// run demodulates v at freqHz and returns the decimated baseband samples in
-// dst (nil: allocated).
-func (dm *demodulator) run(dst []complex128, v []float64, freqHz, fsHz float64) ([]complex128, error) {
+// run demodulates v at each of freqsHz and returns the decimated baseband
+// samples, one slice per frequency.
+func (dm *demodulator) run(v []float64, freqsHz []float64, fsHz float64) ([][]complex128, error) {
 	m1 := dm.stage1Len(len(v))
-	if cap(dm.buf) < m1 {
-		dm.buf = make([]complex128, m1)
+	us := make([][]complex128, len(freqsHz))
+	for i := range us {
+		us[i] = make([]complex128, m1)
 	}
-	u := dm.buf[:m1]
-	if bad := dm.stage1(u, v, freqHz, fsHz); bad >= 0 {
+	if bad := dm.stage1(us, v, freqsHz, fsHz); bad >= 0 {
 		return nil, fmt.Errorf("%w: voltage sample %d is %v: expected a finite value", ErrRecord, bad, v[bad])
 	}
-	if err := dm.ff.Run(u, u); err != nil {
-		return nil, err
-	}
 	nOut := (m1+dm.d2-1)/dm.d2 - 2*dm.trim
-	if dst == nil {
-		dst = make([]complex128, nOut)
+	out := make([][]complex128, len(freqsHz))
+	for i, u := range us {
+		if err := dm.ff.Run(u, u); err != nil {
+			return nil, err
+		}
+		dst := make([]complex128, nOut)
+		for k := range dst {
+			dst[k] = u[(k+dm.trim)*dm.d2]
+		}
+		out[i] = dst
 	}
-	for k := range dst {
-		dst[k] = u[(k+dm.trim)*dm.d2]
-	}
-	return dst, nil
+	return out, nil
 }
 
-// stage1 mixes v to baseband and applies the B-spline decimator, writing
-// len(u) intermediate samples, in polyphase form: each input sample is read
-// once and added to the splineOrder overlapping outputs it belongs to.
+// stage1 mixes v to baseband at each of freqsHz and applies the B-spline
+// decimator, writing len(us[i]) intermediate samples for frequency i, in
+// polyphase form: each input sample is read once (per block, from cache
+// for every frequency after the first) and added to the splineOrder
+// overlapping outputs it belongs to.
 //
 // The carrier is split as e^{−jω(b·d1+p)} = e^{−jωb·d1}·e^{−jωp}: the
 // within-block factor is folded into complex taps T_k[p] = t_k[p]·e^{−jωp}
-// (computed once per tone), so the inner loop is four complex-by-real
+// (computed once per frequency), so the inner loop is four complex-by-real
 // multiply-adds per sample; each block's partial sums are then turned by
 // the exact block phase e^{−jωb·d1} (math.Sincos, no recurrence, so no
 // phase error accumulates however long the record).
@@ -610,77 +620,64 @@ func (dm *demodulator) run(dst []complex128, v []float64, freqHz, fsHz float64) 
 // It returns the index of the first non-finite input sample, or −1: a NaN
 // or infinity makes the block's first sum non-finite, because the first
 // tap column is positive at every phase.
-func (dm *demodulator) stage1(u []complex128, v []float64, freqHz, fsHz float64) int {
+func (dm *demodulator) stage1(us [][]complex128, v []float64, freqsHz []float64, fsHz float64) int {
 	d1 := dm.d1
-	m1 := len(u)
-	w := -2 * math.Pi * freqHz / fsHz
-	if cap(dm.ctaps) < d1 {
-		dm.ctaps = make([][2 * splineOrder]float64, d1)
+	nf := len(freqsHz)
+	if nf == 0 {
+		return -1
 	}
-	// Per phase p: re0 im0 re1 im1 re2 im2 re3 im3.
-	ct := dm.ctaps[:d1]
-	for p := range ct {
-		sn, cs := math.Sincos(w * float64(p))
-		for k := 0; k < splineOrder; k++ {
-			t := dm.taps[p+k*d1]
-			ct[p][2*k] = t * cs
-			ct[p][2*k+1] = t * sn
+	m1 := len(us[0])
+	type toneState struct {
+		w          float64
+		ct         [][2 * splineOrder]float64
+		o1, o2, o3 complex128 // partial outputs b−1, b−2, b−3 carried between blocks
+	}
+	st := make([]toneState, nf)
+	for i, f := range freqsHz {
+		w := -2 * math.Pi * f / fsHz
+		ct := make([][2 * splineOrder]float64, d1)
+		for p := range ct {
+			sn, cs := math.Sincos(w * float64(p))
+			for k := 0; k < splineOrder; k++ {
+				t := dm.taps[p+k*d1]
+				ct[p][2*k] = t * cs
+				ct[p][2*k+1] = t * sn
+			}
 		}
+		st[i] = toneState{w: w, ct: ct}
 	}
-	var o1, o2, o3 complex128 // partial outputs b−1, b−2, b−3 carried between blocks
 	nBlocks := m1 + splineOrder - 1
 	for b := 0; b < nBlocks; b++ {
 		base := b * d1
-		var sums [2 * splineOrder]float64
+		var blk []float64
 		if base < len(v) {
-			blk := v[base:min(base+d1, len(v))]
-			sums = blockSums(ct[:len(blk)], blk)
-			if t := sums[0] + sums[1]; t-t != 0 {
-				if i := firstNonFinite(blk); i >= 0 {
-					return base + i
+			blk = v[base:min(base+d1, len(v))]
+		}
+		for i := range st {
+			t := &st[i]
+			var sums [2 * splineOrder]float64
+			if len(blk) > 0 {
+				sums = blockSums(t.ct[:len(blk)], blk)
+				if i == 0 {
+					if c := sums[0] + sums[1]; c-c != 0 {
+						if j := firstNonFinite(blk); j >= 0 {
+							return base + j
+						}
+					}
 				}
 			}
+			sn, cs := math.Sincos(t.w * float64(base))
+			rot := complex(cs, sn)
+			// Block b contributes tap segment k to output b−k.
+			if m := b - (splineOrder - 1); m >= 0 && m < m1 {
+				us[i][m] = t.o3 + rot*complex(sums[6], sums[7])
+			}
+			t.o3 = t.o2 + rot*complex(sums[4], sums[5])
+			t.o2 = t.o1 + rot*complex(sums[2], sums[3])
+			t.o1 = rot * complex(sums[0], sums[1])
 		}
-		s0r, s0i, s1r, s1i, s2r, s2i, s3r, s3i := sums[0], sums[1], sums[2], sums[3], sums[4], sums[5], sums[6], sums[7]
-		sn, cs := math.Sincos(w * float64(base))
-		rot := complex(cs, sn)
-		// Block b contributes tap segment k to output b−k.
-		if m := b - (splineOrder - 1); m >= 0 && m < m1 {
-			u[m] = o3 + rot*complex(s3r, s3i)
-		}
-		o3 = o2 + rot*complex(s2r, s2i)
-		o2 = o1 + rot*complex(s1r, s1i)
-		o1 = rot * complex(s0r, s0i)
 	}
 	return -1
-}
-
-// blockSums returns Σ_p c[p][i]·x[p] for the eight tap columns i. It is a
-// separate function so that its sums, the sample and the loop index have
-// the registers to themselves (inlined into stage1, the compiler spilled
-// them to the stack on every sample). len(c) must equal len(x).
-//
-//go:noinline
-func blockSums(c [][2 * splineOrder]float64, x []float64) [2 * splineOrder]float64 {
-	var s0r, s0i, s1r, s1i, s2r, s2i, s3r, s3i float64
-	c = c[:len(x)]
-	// Two passes of four sums: eight sums and their products at once
-	// exceed the registers Go's compiler allocates, and spill.
-	for p, v := range x {
-		q := &c[p]
-		s0r += q[0] * v
-		s0i += q[1] * v
-		s1r += q[2] * v
-		s1i += q[3] * v
-	}
-	for p, v := range x {
-		q := &c[p]
-		s2r += q[4] * v
-		s2i += q[5] * v
-		s3r += q[6] * v
-		s3i += q[7] * v
-	}
-	return [2 * splineOrder]float64{s0r, s0i, s1r, s1i, s2r, s2i, s3r, s3i}
 }
 
 // demodMultiplexed handles SlotS > 0.
