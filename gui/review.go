@@ -248,7 +248,7 @@ func callRow(c viewmodel.Call) string {
 	if c.Comment != "" {
 		state += " ✎"
 	}
-	return fmt.Sprintf("%-7s %-7s %-6s %-10s %-16s %5.2f V %4.0f° %s  %s", c.ID, c.Origin, c.Type, c.Channel, loc, c.VppV, c.PhaseDeg, depth, state)
+	return fmt.Sprintf("%-9s %-12s %-10s %-11s %-19s %5.2f V %4.0f° %s  %s", state, c.ID, c.Type, c.Channel, loc, c.VppV, c.PhaseDeg, depth, c.Origin)
 }
 
 func (r *Review) accept() { r.ws.Decide(viewmodel.Decision{Kind: viewmodel.Accept}) }

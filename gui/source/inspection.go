@@ -349,7 +349,7 @@ func (in *Inspection) Measure(ctx context.Context, t *viewmodel.Tube, channel st
 					m.DepthPct, m.DepthOK = d, true
 					m.DepthUncPct = curveUncertainty(cv)
 					if errors.Is(err, calibrate.ErrOutOfRange) {
-						m.DepthNote = "bound: outside the curve"
+						m.DepthNote = "bound"
 					} else if err != nil {
 						m.DepthOK, m.DepthNote = false, err.Error()
 					}
@@ -402,26 +402,26 @@ func (in *Inspection) Calls(ctx context.Context, component string) ([]viewmodel.
 	return out, nil
 }
 
-// splitLocation reads "<landmark> <offset> mm"-style text loosely: the
-// landmark is the text before the last space-separated number.
+// splitLocation reads the analysis's location text, "+0.120 m from
+// support-3", into the landmark name and the signed offset in metres.
+// Text in another form is returned whole as the name.
 func splitLocation(s string) (string, float64) {
-	f := strings.Fields(s)
-	for i := len(f) - 1; i >= 0; i-- {
-		var v float64
-		if _, err := fmt.Sscanf(strings.TrimSuffix(f[i], "m"), "%g", &v); err == nil {
-			unit := 1.0
-			if i+1 < len(f) && f[i+1] == "mm" {
-				unit = 1e-3
-			}
-			name := strings.Join(f[:i], " ")
-			name = strings.TrimSuffix(strings.TrimPrefix(name, "from "), " from")
-			if j := strings.LastIndex(name, " from "); j >= 0 {
-				name = name[j+6:]
-			}
-			return strings.TrimSpace(name), v * unit
-		}
+	num, name, ok := strings.Cut(s, " from ")
+	if !ok {
+		return s, 0
 	}
-	return s, 0
+	f := strings.Fields(num)
+	var v float64
+	if len(f) != 2 || (f[1] != "m" && f[1] != "mm") {
+		return s, 0
+	}
+	if _, err := fmt.Sscanf(f[0], "%g", &v); err != nil {
+		return s, 0
+	}
+	if f[1] == "mm" {
+		v /= 1000
+	}
+	return strings.TrimSpace(name), v
 }
 
 // Decide implements viewmodel.Source with the record's call, which writes

@@ -72,3 +72,21 @@ func TestCoilModelFamiliesAndCancel(t *testing.T) {
 		t.Errorf("advice %+v, %v", adv, err)
 	}
 }
+
+func TestSplitLocation(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		in      string
+		name    string
+		offsetM float64
+	}{
+		{"+0.120 m from support-3", "support-3", 0.120},
+		{"-12.5 mm from tubesheet-1", "tubesheet-1", -0.0125},
+		{"near the U-bend", "near the U-bend", 0},
+	} {
+		name, off := splitLocation(tc.in)
+		if name != tc.name || math.Abs(off-tc.offsetM) > 1e-12 {
+			t.Errorf("splitLocation(%q) = %q, %v; want %q, %v", tc.in, name, off, tc.name, tc.offsetM)
+		}
+	}
+}

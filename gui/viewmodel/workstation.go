@@ -282,9 +282,15 @@ func (ws *Workstation) open(t *Tube, calls []Call) {
 		name, unit, axis = "time", "s", s.TimeS
 	}
 	ws.chart = NewChart(axis, s.Len(), name, unit, defaultWindowSamples)
+	// Show the measured channels first, then the others, four in all.
 	ws.shown = ws.shown[:0]
+	for _, n := range t.MeasureChannels {
+		if len(ws.shown) < 4 && s.Channel(n) != nil && !slices.Contains(ws.shown, n) {
+			ws.shown = append(ws.shown, n)
+		}
+	}
 	for _, c := range s.Channels {
-		if len(ws.shown) < 4 {
+		if len(ws.shown) < 4 && !slices.Contains(ws.shown, c.Name) {
 			ws.shown = append(ws.shown, c.Name)
 		}
 	}
