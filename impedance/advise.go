@@ -114,6 +114,21 @@ type AdviceInput struct {
 	FieldLengthM float64
 	// IncludeID adds an inside-surface frequency above the prime.
 	IncludeID bool
+	// MagnetMomentAm2 and MagnetHeightM describe a vertically magnetised
+	// magnet (point dipole, A·m²) moving at ProbeSpeedMPS at a height above
+	// a sheet of thickness WallM; when both are positive the drag and lift
+	// of the thin-sheet model are reported (ThinSheetForces).
+	MagnetMomentAm2 float64
+	MagnetHeightM   float64
+}
+
+// MagnetForces is the speed effect on a magnet moving over a thin sheet.
+type MagnetForces struct {
+	RecessionMPS      float64 `json:"recession_speed_m_per_s"` // w = 2/(μ0σd)
+	ImageForceN       float64 `json:"image_force_n"`           // static perfect-image repulsion
+	LiftN             float64 `json:"lift_n"`
+	DragN             float64 `json:"drag_n"`
+	DynamicSkinDepthM float64 `json:"dynamic_skin_depth_m"` // √(2h/(μ0σv))
 }
 
 // Advice is the frequency advice for one material, part and acquisition.
@@ -139,6 +154,8 @@ type Advice struct {
 	FlawBandwidthHz float64 `json:"flaw_bandwidth_hz,omitempty"`
 	// ReynoldsNumber is the magnetic Reynolds number μ0σvL of the motion.
 	ReynoldsNumber float64 `json:"magnetic_reynolds_number,omitempty"`
+	// Magnet holds the drag and lift on a moving magnet, if one was given.
+	Magnet *MagnetForces `json:"magnet,omitempty"`
 	// Warnings lists every rule the input breaks, in plain words.
 	Warnings []string `json:"warnings"`
 }
@@ -188,7 +205,8 @@ func Advise(in AdviceInput) (Advice, error) {
 		v    float64
 	}{{"wall", in.WallM}, {"tube outside diameter", in.TubeOuterDiamM}, {"candidate frequency", in.CandidateHz},
 		{"probe speed", in.ProbeSpeedMPS}, {"sample rate", in.SampleRateHz}, {"low-pass cut-off", in.LowpassHz},
-		{"coil length", in.CoilLengthM}, {"field length", in.FieldLengthM}} {
+		{"coil length", in.CoilLengthM}, {"field length", in.FieldLengthM},
+		{"magnet moment", in.MagnetMomentAm2}, {"magnet height", in.MagnetHeightM}} {
 		if !(q.v >= 0) || math.IsInf(q.v, 0) {
 			return Advice{}, fmt.Errorf("%s %v: expected a finite value ≥ 0", q.name, q.v)
 		}
@@ -271,6 +289,24 @@ func Advise(in AdviceInput) (Advice, error) {
 			if a.ReynoldsNumber > ReynoldsWarn {
 				a.Warnings = append(a.Warnings, fmt.Sprintf("magnetic Reynolds number μ0σvL = %.3g > %g: motion-induced eddy currents distort the reading at %.3g m/s; calibrate at the examination speed or slow down", a.ReynoldsNumber, ReynoldsWarn, v))
 			}
+		}
+	}
+	if in.MagnetMomentAm2 > 0 || in.MagnetHeightM > 0 {
+		if !(in.MagnetMomentAm2 > 0) || !(in.MagnetHeightM > 0) || !(in.WallM > 0) || !(v > 0) {
+			return Advice{}, fmt.Errorf("magnet forces need a moment, a height, a sheet thickness (wall) and a speed, all positive")
+		}
+		mf := &MagnetForces{
+			RecessionMPS:      RecessionSpeedMPS(sigma, in.WallM),
+			ImageForceN:       DipoleImageForceN(in.MagnetMomentAm2, in.MagnetHeightM),
+			DynamicSkinDepthM: DynamicSkinDepthM(sigma, v, in.MagnetHeightM),
+		}
+		mf.LiftN, mf.DragN = ThinSheetForces(mf.ImageForceN, v, mf.RecessionMPS)
+		a.Magnet = mf
+		if in.WallM > mf.DynamicSkinDepthM/3 {
+			a.Warnings = append(a.Warnings, fmt.Sprintf("sheet %.3g mm is not thin against the dynamic skin depth %.3g mm: the thin-sheet drag and lift are only indicative", in.WallM*1e3, mf.DynamicSkinDepthM*1e3))
+		}
+		if mur > 1 {
+			a.Warnings = append(a.Warnings, "magnetic sheet: the thin-sheet forces assume μr = 1")
 		}
 	}
 	return a, nil

@@ -244,3 +244,21 @@ func TestSkinDepthAlloy690Worked(t *testing.T) {
 		}
 	}
 }
+
+func TestAdviseMagnet(t *testing.T) {
+	t.Parallel()
+	// 1 A·m² dipole 10 mm over 1 mm of aluminium (35 MS/m) at w: lift =
+	// drag = F_image(1 − 1/√2) (ThinSheetForces at v = w).
+	w := RecessionSpeedMPS(35e6, 1e-3)
+	a, err := Advise(AdviceInput{ConductivitySPerM: 35e6, WallM: 1e-3, ProbeSpeedMPS: w, MagnetMomentAm2: 1, MagnetHeightM: 10e-3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := DipoleImageForceN(1, 10e-3) * (1 - 1/math.Sqrt2)
+	if a.Magnet == nil || !scalar.EqualWithinRel(a.Magnet.LiftN, want, 1e-12) || !scalar.EqualWithinRel(a.Magnet.DragN, want, 1e-12) {
+		t.Errorf("magnet %+v, want lift = drag = %g N", a.Magnet, want)
+	}
+	if _, err := Advise(AdviceInput{ConductivitySPerM: 35e6, MagnetMomentAm2: 1}); err == nil {
+		t.Error("magnet without height, sheet and speed accepted")
+	}
+}

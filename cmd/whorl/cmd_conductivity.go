@@ -189,8 +189,11 @@ recommended frequency set (prime f90–1.5·f90, mix partner ≤ prime/2,
 landmark, optional ID frequency), the lowest frequency for a 3δ-thick part,
 and checks the acquisition: samples per inch (≥ 30, common practice), the
 low-pass cut-off against the flaw bandwidth speed/coil length, and the
-magnetic Reynolds number μ0σvL of the motion (> 0.1 warns). The technique
-sheet governs the frequencies actually used.
+magnetic Reynolds number μ0σvL of the motion (> 0.1 warns). With
+--magnet-moment and --magnet-height it gives the lift and drag on a magnet
+moving at --probe-speed over a thin sheet of thickness --wall (receding
+images: lift = F_image[1 − w/√(v² + w²)], drag = (w/v)·lift, w = 2/(μ0σd)).
+The technique sheet governs the frequencies actually used.
 
 Materials (--material): ` + materialNames() + `
 
@@ -198,7 +201,9 @@ Examples:
   whorl advise --material alloy690 --wall 1.09mm --tube-od 19.05mm --id
   whorl advise --conductivity 43%IACS --wall 2mm --freq 60kHz
   whorl advise --material alloy600 --wall 0.043in --probe-speed 0.6m/s \
-      --sample-rate 800Hz --lowpass 100Hz --coil-length 3mm --json`,
+      --sample-rate 800Hz --lowpass 100Hz --coil-length 3mm --json
+  whorl advise --conductivity 35MS/m --wall 1mm --probe-speed 20m/s \
+      --magnet-moment 1 --magnet-height 10mm`,
 		setFlags: func(fs *flag.FlagSet) {
 			fs.String("material", "", "material name (see the list above)")
 			fs.String("conductivity", "", "conductivity (e.g. 1.45MS/m, 43%IACS); overrides the material's")
@@ -212,6 +217,8 @@ Examples:
 			fs.String("coil-length", "", "effective coil (field) length along the scan (e.g. 3mm)")
 			fs.String("field-length", "", "length scale of the magnetic Reynolds number (default: coil length, then wall)")
 			fs.Bool("id", false, "add an inside-surface frequency above the prime")
+			fs.Float64("magnet-moment", 0, "moment of a vertically magnetised magnet moving over the sheet (--wall), A·m²")
+			fs.String("magnet-height", "", "height of the magnet's centre above the sheet (e.g. 10mm)")
 			fs.Bool("json", false, "print JSON")
 		},
 		run: runAdvise,
@@ -1187,6 +1194,12 @@ func runAdvise(_ context.Context, e *env, fs *flag.FlagSet, args []string) error
 		*q.dst = v
 	}
 	in.IncludeID = flagBool(fs, "id")
+	in.MagnetMomentAm2 = flagFloat(fs, "magnet-moment")
+	if v, _, err := flagQuantity(fs, "magnet-height", units.Length); err != nil {
+		return err
+	} else {
+		in.MagnetHeightM = v
+	}
 	a, err := impedance.Advise(in)
 	if err != nil {
 		return usagef("%v", err)
@@ -1229,6 +1242,10 @@ func runAdvise(_ context.Context, e *env, fs *flag.FlagSet, args []string) error
 	}
 	if a.ReynoldsNumber > 0 {
 		fmt.Fprintf(w, "magnetic Reynolds   %.3g (μ0σvL)\n", a.ReynoldsNumber)
+	}
+	if mf := a.Magnet; mf != nil {
+		fmt.Fprintf(w, "magnet over sheet   lift %.4g N, drag %.4g N (image force %.4g N, images recede at %.4g m/s; thin-sheet model)\n",
+			mf.LiftN, mf.DragN, mf.ImageForceN, mf.RecessionMPS)
 	}
 	for _, s := range a.Warnings {
 		fmt.Fprintf(w, "warning: %s\n", s)
