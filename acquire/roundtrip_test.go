@@ -2,6 +2,8 @@ package acquire
 
 import (
 	"bytes"
+	"errors"
+	"io/fs"
 	"math"
 	"math/rand/v2"
 	"os"
@@ -266,6 +268,16 @@ func TestFileRoundTripAndSniff(t *testing.T) {
 	}
 	if _, err := ReadScanFile(sp); err != nil {
 		t.Fatalf("file damaged by a failed write: %v", err)
+	}
+	// CreateScanFile refuses to replace a file.
+	if err := CreateScanFile(sp, s); !errors.Is(err, fs.ErrExist) {
+		t.Fatalf("CreateScanFile over an existing file: %v, want fs.ErrExist", err)
+	}
+	if err := CreateScanFile(filepath.Join(dir, "new.csv"), s); err != nil {
+		t.Fatalf("CreateScanFile: %v", err)
+	}
+	if entries, _ := os.ReadDir(dir); len(entries) != 3 {
+		t.Fatalf("folder holds %d entries, want 3 (no temporary files left)", len(entries))
 	}
 	other := filepath.Join(dir, "other.csv")
 	os.WriteFile(other, []byte("a,b\n1,2\n"), 0o644)

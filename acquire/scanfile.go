@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"math"
 	"os"
 	"path/filepath"
@@ -897,7 +898,15 @@ func checkMonotonic(p []float64) error {
 // writeFileAtomic writes through fn to a temporary file in the folder of
 // path, syncs it and renames it over path, so that path never holds a
 // half-written file.
-func writeFileAtomic(path string, fn func(io.Writer) error) (err error) {
+func writeFileAtomic(path string, fn func(io.Writer) error) error {
+	return writeFileSafely(path, false, fn)
+}
+
+// writeFileSafely is writeFileAtomic; with noClobber it fails, wrapping
+// fs.ErrExist, when path exists, without a window in which another
+// writer's file could be replaced (the temporary file is hard-linked to
+// path, which fails if path exists).
+func writeFileSafely(path string, noClobber bool, fn func(io.Writer) error) (err error) {
 	dir := filepath.Dir(path)
 	f, err := os.CreateTemp(dir, "."+filepath.Base(path)+".*.tmp")
 	if err != nil {
@@ -922,7 +931,24 @@ func writeFileAtomic(path string, fn func(io.Writer) error) (err error) {
 	if err = os.Chmod(tmp, 0o644); err != nil {
 		return err
 	}
+	if !noClobber {
+		return os.Rename(tmp, path)
+	}
+	defer os.Remove(tmp)
+	if err = os.Link(tmp, path); err == nil || errors.Is(err, fs.ErrExist) {
+		return err
+	}
+	// The file system has no hard links: check, then rename.
+	if _, serr := os.Lstat(path); serr == nil {
+		return &fs.PathError{Op: "create", Path: path, Err: fs.ErrExist}
+	}
 	return os.Rename(tmp, path)
+}
+
+// CreateScanFile writes s to a new file at path like WriteScanFile, but
+// fails with an error wrapping fs.ErrExist if path already exists.
+func CreateScanFile(path string, s *Scan) error {
+	return writeFileSafely(path, true, func(w io.Writer) error { return WriteScan(w, s) })
 }
 
 // WriteScanFile writes s to path with WriteScan. It writes a temporary

@@ -1,0 +1,82 @@
+package acquire
+
+import (
+	"math"
+	"testing"
+)
+
+// cleanScan is 100 samples at 1 kHz moving 0.3 mm a sample (0.3 m/s)
+// with a smooth signal: Inspect finds nothing.
+func cleanScan() *Scan {
+	s := &Scan{SampleRateHz: 1000, AxialStepM: 3e-4, Meta: Meta{ProbeSpeedMPS: 0.3},
+		Channels: []Channel{{Name: "c", FreqHz: 1e5, Mode: Differential}}}
+	for i := range 100 {
+		s.TimeS = append(s.TimeS, float64(i)*1e-3)
+		s.PositionM = append(s.PositionM, float64(i)*3e-4)
+		s.Channels[0].Samples = append(s.Channels[0].Samples, complex(math.Sin(float64(i)/7), math.Cos(float64(i)/5)))
+	}
+	return s
+}
+
+func TestInspect(t *testing.T) {
+	t.Parallel()
+	cases := []struct {
+		name  string
+		edit  func(s *Scan)
+		kind  string
+		index int
+		count int
+	}{
+		{"clean", func(s *Scan) {}, "", 0, 0},
+		{"NaN sample", func(s *Scan) { s.Channels[0].Samples[7] = complex(math.NaN(), 0) }, ProblemNonFinite, 7, 0},
+		{"time repeats", func(s *Scan) { s.TimeS[50] = s.TimeS[49] }, ProblemNonMonotonic, 50, 0},
+		{"gap in time", func(s *Scan) {
+			for i := 60; i < 100; i++ {
+				s.TimeS[i] += 5e-3
+			}
+		}, ProblemGap, 60, 1},
+		{"rate disagrees", func(s *Scan) { s.SampleRateHz = 1100 }, ProblemRate, -1, 0},
+		{"step disagrees", func(s *Scan) { s.AxialStepM = 2e-4 }, ProblemStep, -1, 0},
+		{"speed disagrees", func(s *Scan) { s.Meta.ProbeSpeedMPS = 0.5 }, ProblemSpeed, -1, 0},
+		{"constant channel", func(s *Scan) {
+			for i := range s.Channels[0].Samples {
+				s.Channels[0].Samples[i] = 1
+			}
+		}, ProblemConstant, -1, 100},
+		{"clipped at the top", func(s *Scan) {
+			for i := 20; i < 25; i++ {
+				s.Channels[0].Samples[i] = complex(2, imag(s.Channels[0].Samples[i]))
+			}
+		}, ProblemClipped, 20, 5},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			t.Parallel()
+			s := cleanScan()
+			c.edit(s)
+			got := Inspect(s)
+			if c.kind == "" {
+				if len(got) != 0 {
+					t.Fatalf("got %+v, want no problems", got)
+				}
+				return
+			}
+			if len(got) != 1 || got[0].Kind != c.kind || got[0].Index != c.index || got[0].Count != c.count {
+				t.Fatalf("got %+v, want one %s at %d count %d", got, c.kind, c.index, c.count)
+			}
+		})
+	}
+}
+
+func TestInspectRaw(t *testing.T) {
+	t.Parallel()
+	// A quiet baseline at the minimum is not clipping.
+	if got := InspectRaw(&RawRecord{VoltageV: []float64{0, 0, 0, 0, 0.5, 1, 0.5, 0, 0}}); len(got) != 0 {
+		t.Fatalf("baseline: got %+v, want no problems", got)
+	}
+	r := &RawRecord{SampleRateHz: 1e6, ExcitationHz: []float64{1e5}, VoltageV: []float64{0, 0.1, -0.1, 0.2, 1, 1, 1, 0.3, -0.2, 0, -1}}
+	got := InspectRaw(r)
+	if len(got) != 1 || got[0].Kind != ProblemClipped || got[0].Index != 4 || got[0].Count != 3 {
+		t.Fatalf("got %+v, want one clipped run of 3 from sample 4", got)
+	}
+}
