@@ -312,3 +312,33 @@ func TestLevenbergMarquardtRosenbrock(t *testing.T) {
 		t.Errorf("minimum at %v, want (1, 1)", res.p)
 	}
 }
+
+// TestNormalizedImpedanceCoilScale checks the coil-scale similarity used by
+// the fits against a model built for the scaled coil: scaling every length
+// by s and σ by 1/s² leaves Zn unchanged (Dodd–Deeds dimensionless form,
+// parameter ωμ0σr̄²).
+func TestNormalizedImpedanceCoilScale(t *testing.T) {
+	t.Parallel()
+	m := newSurfaceModel(t)
+	for _, s := range []float64{0.9, 1.07, 1.5} {
+		big := Coil{surfaceCoil.InnerRadiusM * s, surfaceCoil.OuterRadiusM * s, surfaceCoil.LengthM * s, surfaceCoil.Turns}
+		ms, err := NewPlanarModel(big, 1e-10)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, sp := range []Specimen{{ConductivitySPerM: iacs(30)}, {ConductivitySPerM: iacs(43), ThicknessM: 0.5e-3}} {
+			got, err := NormalizedImpedance(m, 60e3, 0.35e-3, s, sp)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want, err := NormalizedImpedance(ms, 60e3, 0.35e-3, 1, sp)
+			if err != nil {
+				t.Fatal(err)
+			}
+			// Both models are accurate to about 1e-8 relative.
+			if d := cmplx.Abs(got - want); d > 1e-7 {
+				t.Errorf("s = %g, %+v: scaled %v, direct %v, differ by %g", s, sp, got, want, d)
+			}
+		}
+	}
+}
