@@ -1,6 +1,7 @@
 package calibrate_test
 
 import (
+	"encoding/json"
 	"errors"
 	"math"
 	"math/rand/v2"
@@ -230,4 +231,30 @@ func TestApprove(t *testing.T) {
 	if err := cal.Verify(); err == nil {
 		t.Error("changed gain not detected by the hash")
 	}
+}
+
+func FuzzParseCalibration(f *testing.F) {
+	cal := build(f, calibtest.Demo(), 7)
+	b, err := json.Marshal(cal)
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Add(b)
+	f.Add(b[:len(b)/3])
+	f.Add([]byte(`{"id":"x","status":"draft","channels":[{"channel":"a","gain":1,"rotation_deg":0,"curves":[null]}]}`))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		c, err := calibrate.ParseCalibration("fuzz.json", data)
+		if err != nil {
+			return
+		}
+		// Whatever parses has a matching hash and evaluable curves.
+		if err := c.Verify(); err != nil {
+			t.Fatal(err)
+		}
+		for _, ch := range c.Channels {
+			for _, cv := range ch.Curves {
+				cv.Depth(90, 1)
+			}
+		}
+	})
 }

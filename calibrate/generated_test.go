@@ -138,3 +138,42 @@ func TestPhaseLagOnGeneratedStandard(t *testing.T) {
 		})
 	}
 }
+
+// TestSetUpOnGeneratedStandards: on every opening standard scan of both
+// generated inspections, after calibration each set-up's rotation
+// reference reads the procedure angle within 0.5° and its normalisation
+// reference the procedure voltage within 1 %, re-measured on the
+// calibrated samples; every standard flaw is found.
+func TestSetUpOnGeneratedStandards(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct {
+		cfg  synth.Config
+		proc string
+	}{{synth.Demo(), demoProcedure}, {synth.Alternate(), "../testdata/calibrate/alternate-procedure.json"}} {
+		g, err := synth.New(c.cfg)
+		if err != nil {
+			t.Fatal(err)
+		}
+		proc, err := calibrate.LoadProcedure(c.proc)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for gi := 0; gi < c.cfg.Groups; gi++ {
+			cal := demoCalibration(t, g, proc, gi, false, nil)
+			for _, l := range cal.Located {
+				if !l.Found {
+					t.Errorf("%s group %d: flaw %s not found: %s", c.cfg.Component, gi, l.FlawID, l.Note)
+				}
+			}
+			for _, su := range proc.Setups {
+				cc := cal.Channel(su.Channel)
+				if d := math.Abs(math.Remainder(cc.RefPhaseDeg-su.Rotation.AngleDeg, 360)); d > 0.5 {
+					t.Errorf("%s group %d %s: %s reads %.3f°, procedure %g° (±0.5°)", c.cfg.Component, gi, su.Channel, su.Rotation.Reference, cc.RefPhaseDeg, su.Rotation.AngleDeg)
+				}
+				if math.Abs(cc.RefVpp/su.Normalisation.Vpp-1) > 0.01 {
+					t.Errorf("%s group %d %s: %s reads %.4f V, procedure %g V (±1 %%)", c.cfg.Component, gi, su.Channel, su.Normalisation.Reference, cc.RefVpp, su.Normalisation.Vpp)
+				}
+			}
+		}
+	}
+}
