@@ -46,20 +46,7 @@ func mustStandard(t testing.TB) *calibrate.Standard {
 
 func mutateProc(t testing.TB, edit func(m map[string]any)) []byte {
 	t.Helper()
-	b, err := os.ReadFile(exampleProcedure)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var m map[string]any
-	if err := json.Unmarshal(b, &m); err != nil {
-		t.Fatal(err)
-	}
-	edit(m)
-	out, err := json.MarshalIndent(m, "", " ")
-	if err != nil {
-		t.Fatal(err)
-	}
-	return out
+	return mutateFile(t, exampleProcedure, edit)
 }
 
 func obj(v any, path ...any) map[string]any {

@@ -42,7 +42,14 @@ func TestLoadStandardExample(t *testing.T) {
 // decoded form.
 func mutate(t testing.TB, edit func(m map[string]any)) []byte {
 	t.Helper()
-	b, err := os.ReadFile(exampleStandard)
+	return mutateFile(t, exampleStandard, edit)
+}
+
+// mutateFile returns the JSON file at path with one edit applied to its
+// decoded form.
+func mutateFile(t testing.TB, path string, edit func(m map[string]any)) []byte {
+	t.Helper()
+	b, err := os.ReadFile(path)
 	if err != nil {
 		t.Fatal(err)
 	}
