@@ -42,3 +42,49 @@ func panelIntegral(h, maxA, relTol float64, f func(a float64) complex128, remain
 	}
 	return sum, errSum + remainder(A)
 }
+
+// panelIntegralVec integrates the n-component function f over [0, ∞) on the
+// panels of panelEdges, f(a, dst) writing its values into dst. It stops
+// after three consecutive panels whose contributions are all below
+// relTol·|sum| of their component (past the graded panels), or at maxA.
+// f is called at increasing α. It returns the integrals and, per component,
+// the sum over panels of |Kronrod − Gauss|.
+func panelIntegralVec(h, maxA, relTol float64, n int, f func(a float64, dst []complex128)) ([]complex128, []float64) {
+	sums := make([]complex128, n)
+	errs := make([]float64, n)
+	pk := make([]complex128, n)
+	pd := make([]complex128, n)
+	v := make([]complex128, n)
+	quiet := 0
+	for p := 0; ; p++ {
+		a, b := panelEdges(p, h)
+		cm, hw := 0.5*(a+b), 0.5*(b-a)
+		for j := range pk {
+			pk[j], pd[j] = 0, 0
+		}
+		for i, x := range gk21.x {
+			f(cm+hw*x, v)
+			wk, wd := complex(hw*gk21.wK[i], 0), complex(hw*(gk21.wK[i]-gk21.wG[i]), 0)
+			for j := range v {
+				pk[j] += wk * v[j]
+				pd[j] += wd * v[j]
+			}
+		}
+		small := true
+		for j := range sums {
+			sums[j] += pk[j]
+			errs[j] += cmplx.Abs(pd[j])
+			if cmplx.Abs(pk[j]) > relTol*cmplx.Abs(sums[j]) {
+				small = false
+			}
+		}
+		if small && p > gradeLevels+2 {
+			quiet++
+		} else {
+			quiet = 0
+		}
+		if quiet >= 3 || b >= maxA {
+			return sums, errs
+		}
+	}
+}

@@ -171,10 +171,10 @@ func (t TubeProbe) integrate(omega, d float64) (complex128, float64) {
 	} else {
 		gap = r1 - t.TubeOuterRadiusM
 	}
+	// Panels: half a period of sin²(αl/2) (and of cos αD), at most 2/gap
+	// (the e^{−2α·gap} decay); the structure on the scale 1/r near α = 0 is
+	// resolved by the geometric grading of panelEdges.
 	h := math.Pi / l
-	if v := math.Pi / r2; v < h {
-		h = v
-	}
 	if d > 0 {
 		if v := math.Pi / d; v < h {
 			h = v
