@@ -311,6 +311,9 @@ func unitColumn(c *column, k units.Kind, unit string, scale float64) bool {
 		return false
 	}
 	c.factor = f * scale
+	if inv := math.Round(1 / f); scale == 1 && f < 1 && 1/inv == f {
+		c.div = inv
+	}
 	c.expected = "a decimal number in " + unit
 	if scale == 1 {
 		c.unit = unit

@@ -57,6 +57,10 @@ type column struct {
 	role     role
 	ch       int     // channel index for roleX and roleY
 	factor   float64 // multiplies the parsed number to give SI
+	// div, when non-zero, divides the parsed number instead: for units
+	// such as mV and mm, whose factor 1/1000 is not exact in binary,
+	// dividing by the exact 1000 gives the correctly rounded SI value.
+	div float64
 	header   string  // header text as written in the file, for errors
 	expected string  // what a field must hold, for errors
 	metaKey  string  // Meta key for roleMeta
@@ -197,7 +201,11 @@ func (t *table) readRows() error {
 			v, st := t.num.parse(fields[i])
 			switch st {
 			case numOK:
-				vals[i] = v * c.factor
+				if c.div != 0 {
+					vals[i] = v / c.div
+				} else {
+					vals[i] = v * c.factor
+				}
 				raws[i] = v
 				if math.IsInf(vals[i], 0) {
 					return t.errAt(ln, i+1, ErrNonFinite, c.expected, fmt.Sprintf("%q overflows after unit conversion", fields[i]))
