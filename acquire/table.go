@@ -54,16 +54,16 @@ const (
 
 // column is how one field of each row is read.
 type column struct {
-	role     role
-	ch       int     // channel index for roleX and roleY
-	factor   float64 // multiplies the parsed number to give SI
+	role   role
+	ch     int     // channel index for roleX and roleY
+	factor float64 // multiplies the parsed number to give SI
 	// div, when non-zero, divides the parsed number instead: for units
 	// such as mV and mm, whose factor 1/1000 is not exact in binary,
 	// dividing by the exact 1000 gives the correctly rounded SI value.
-	div float64
-	header   string  // header text as written in the file, for errors
-	expected string  // what a field must hold, for errors
-	metaKey  string  // Meta key for roleMeta
+	div      float64
+	header   string // header text as written in the file, for errors
+	expected string // what a field must hold, for errors
+	metaKey  string // Meta key for roleMeta
 	// unit is the file's unit for messages when the column has no scale
 	// factor (empty: messages show SI values).
 	unit string
