@@ -75,54 +75,23 @@ func (p Planar) CurrentDensity(freqHz float64, depthsM []float64, radiusM float6
 	alph := make([]complex128, n)
 	gam := make([]complex128, n+1) // gam[i] = Γ at the top of layer i (0-based); gam[n] = bottom
 	bamp := make([]complex128, n)
-	sums := make([]complex128, len(depthsM))
-	errs := make([]float64, len(depthsM))
-	pk := make([]complex128, len(depthsM))
-	pd := make([]complex128, len(depthsM))
-	quiet := 0
-	for pnl := 0; ; pnl++ {
-		a, b := panelEdges(pnl, h)
-		cm, hw := 0.5*(a+b), 0.5*(b-a)
-		for j := range pk {
-			pk[j], pd[j] = 0, 0
-		}
-		for i, x := range gk21.x {
-			al := cm + hw*x
-			chi := f2.next(al) - f1.next(al)
-			src := chi / (al * al * al) * math.Exp(-al*z1) * -math.Expm1(-al*l) * math.J1(al*radiusM)
-			stk.transmission(al, alph, gam, bamp)
-			wk, wd := hw*gk21.wK[i], hw*(gk21.wK[i]-gk21.wG[i])
-			for j, lc := range locs {
-				if lc.layer < 0 {
-					continue
-				}
-				k := lc.layer
-				u := cmplx.Exp(-alph[k] * complex(lc.s, 0))
-				if g := gam[k+1]; g != 0 && !math.IsInf(p.Layers[k].ThicknessM, 1) {
-					u += g * cmplx.Exp(-alph[k]*complex(2*p.Layers[k].ThicknessM-lc.s, 0))
-				}
-				v := complex(src, 0) * bamp[k] * u
-				pk[j] += complex(wk, 0) * v
-				pd[j] += complex(wd, 0) * v
+	sums, _ := panelIntegralVec(h, maxA, 1e-12, len(depthsM), func(al float64, dst []complex128) {
+		chi := f2.next(al) - f1.next(al)
+		src := complex(chi/(al*al*al)*math.Exp(-al*z1)*-math.Expm1(-al*l)*math.J1(al*radiusM), 0)
+		stk.transmission(al, alph, gam, bamp)
+		for j, lc := range locs {
+			if lc.layer < 0 {
+				dst[j] = 0
+				continue
 			}
-		}
-		small := true
-		for j := range sums {
-			sums[j] += pk[j]
-			errs[j] += cmplx.Abs(pd[j])
-			if cmplx.Abs(pk[j]) > 1e-12*cmplx.Abs(sums[j]) {
-				small = false
+			k := lc.layer
+			u := cmplx.Exp(-alph[k] * complex(lc.s, 0))
+			if g := gam[k+1]; g != 0 && !math.IsInf(p.Layers[k].ThicknessM, 1) {
+				u += g * cmplx.Exp(-alph[k]*complex(2*p.Layers[k].ThicknessM-lc.s, 0))
 			}
+			dst[j] = src * bamp[k] * u
 		}
-		if small && pnl > gradeLevels+2 {
-			quiet++
-		} else {
-			quiet = 0
-		}
-		if quiet >= 3 || b >= maxA {
-			break
-		}
-	}
+	})
 	for j, lc := range locs {
 		if lc.layer < 0 {
 			continue
