@@ -2,9 +2,11 @@ package main
 
 import (
 	"context"
+	"errors"
 	"flag"
 	"fmt"
 	"io"
+	"os"
 	"path/filepath"
 	"sort"
 	"strings"
@@ -224,6 +226,9 @@ func runInspect(ctx context.Context, e *env, fs *flag.FlagSet, args []string) er
 	db := flagString(fs, "db")
 	if db == "" {
 		db = filepath.Join(dir, "inspection.db")
+	}
+	if _, err := os.Stat(db); errors.Is(err, os.ErrNotExist) && (flagString(fs, "site") == "" || flagString(fs, "component") == "") {
+		return usagef("a new record needs --site and --component (the examined equipment)")
 	}
 	rep := flagString(fs, "report")
 	if rep == "" {

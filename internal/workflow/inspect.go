@@ -444,6 +444,7 @@ func sortedKeys[V any](m map[string]V) []string {
 
 // tubeResult is one scan's outcome, handed from a worker to the writer.
 type tubeResult struct {
+	index     int // position in the batch: results are recorded in this order
 	file      string
 	component string
 	row, col  int
@@ -468,8 +469,10 @@ func analyseAll(ctx context.Context, st *store.Store, analyst *store.Session, gr
 		return err
 	}
 	scanByPath := map[string]store.Scan{}
+	scanIDs := map[string]string{}
 	for _, s := range scans {
 		scanByPath[s.Path] = s
+		scanIDs[s.ID] = s.Path
 	}
 	done := func(path string) bool {
 		s, ok := scanByPath[path]
@@ -493,7 +496,11 @@ func analyseAll(ctx context.Context, st *store.Store, analyst *store.Session, gr
 
 	ctx, cancel := context.WithCancel(ctx)
 	defer cancel()
-	work := make(chan string)
+	type job struct {
+		index int
+		file  string
+	}
+	work := make(chan job)
 	results := make(chan tubeResult, jobs)
 	var wg sync.WaitGroup
 	for w := 0; w < jobs; w++ {
@@ -501,8 +508,9 @@ func analyseAll(ctx context.Context, st *store.Store, analyst *store.Session, gr
 		go func() {
 			defer wg.Done()
 			analyzers := map[string]*analysis.Analyzer{}
-			for f := range work {
-				r := analyseFile(ctx, f, groups, analyzers, opt)
+			for j := range work {
+				r := analyseFile(ctx, j.file, groups, analyzers, opt)
+				r.index = j.index
 				select {
 				case results <- r:
 				case <-ctx.Done():
@@ -513,9 +521,9 @@ func analyseAll(ctx context.Context, st *store.Store, analyst *store.Session, gr
 	}
 	go func() {
 		defer close(work)
-		for _, f := range todo {
+		for i, f := range todo {
 			select {
-			case work <- f:
+			case work <- job{i, f}:
 			case <-ctx.Done():
 				return
 			}
@@ -523,19 +531,32 @@ func analyseAll(ctx context.Context, st *store.Store, analyst *store.Session, gr
 	}()
 	go func() { wg.Wait(); close(results) }()
 
+	// Results are recorded in file order, whatever order the workers
+	// finish in, so the record does not depend on scheduling.
 	n := sum.Skipped
 	var werr error
+	pending := map[int]tubeResult{}
+	next := 0
 	for r := range results {
 		if werr != nil {
 			continue // drain
 		}
-		if err := record(ctx, analyst, known, scanByPath, r, sum); err != nil {
-			werr = err
-			cancel()
-			continue
+		pending[r.index] = r
+		for {
+			r, ok := pending[next]
+			if !ok {
+				break
+			}
+			delete(pending, next)
+			next++
+			if err := record(ctx, analyst, known, scanByPath, scanIDs, r, sum); err != nil {
+				werr = err
+				cancel()
+				break
+			}
+			n++
+			progress(Progress{Stage: "analyse", Done: n, Total: total, Skipped: sum.Skipped, Failed: len(sum.NotExamined)})
 		}
-		n++
-		progress(Progress{Stage: "analyse", Done: n, Total: total, Skipped: sum.Skipped, Failed: len(sum.NotExamined)})
 	}
 	if werr != nil {
 		return werr
@@ -594,8 +615,15 @@ func scanID(s *acquire.Scan) string {
 	return s.Meta.Component + "@" + s.Meta.Start.UTC().Format("20060102T150405Z")
 }
 
-// record writes one scan's outcome to the store.
-func record(ctx context.Context, analyst *store.Session, known map[string]store.Component, scans map[string]store.Scan, r tubeResult, sum *Summary) error {
+// record writes one scan's outcome to the store. A scan that repeats one
+// already recorded from another file (same component and start time) is
+// listed as not examined and left out of the record.
+func record(ctx context.Context, analyst *store.Session, known map[string]store.Component, scans map[string]store.Scan, ids map[string]string, r tubeResult, sum *Summary) error {
+	if path, dup := ids[r.scan.ID]; r.err == nil && dup && path != r.file {
+		sum.NotExamined = append(sum.NotExamined, NotExamined{Component: r.component, File: r.file,
+			Reason: fmt.Sprintf("the same scan (%s) as %s, which is recorded", r.scan.ID, path)})
+		return nil
+	}
 	if _, ok := known[r.component]; !ok {
 		c := store.Component{ID: r.component, Row: r.row, Column: r.col}
 		if err := analyst.AddComponents(ctx, []store.Component{c}); err != nil {
@@ -612,6 +640,7 @@ func record(ctx context.Context, analyst *store.Session, known map[string]store.
 			return fmt.Errorf("%s: %w", r.file, err)
 		}
 		scans[r.file] = r.scan
+		ids[r.scan.ID] = r.file
 	}
 	recs := make([]store.Indication, 0, len(r.inds))
 	for i := range r.inds {
