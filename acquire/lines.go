@@ -290,69 +290,33 @@ func (p *numberParser) parse(b []byte) (float64, numberStatus) {
 		// needs checking before strconv converts it.
 		return p.parseLong(b)
 	}
-	if ok {
-		if m != 0 {
-			if m == ',' && !p.allowComma {
-				return 0, numSyntax
-			}
-			if p.mark == 0 {
-				p.mark = m
-			} else if p.mark != m {
-				return 0, numWrongMark
-			}
-		}
-		return v, numOK
-	}
-	markAt := -1
-	digits := 0
-	for i, c := range b {
-		switch {
-		case c >= '0' && c <= '9':
-			digits++
-		case c == '.' || c == ',':
-			if markAt >= 0 {
-				return 0, numSyntax
-			}
-			markAt = i
-		case c == 'e' || c == 'E' || c == '+' || c == '-':
-		default:
-			if isNonFiniteWord(b) {
-				return 0, numNonFinite
-			}
-			return 0, numSyntax
-		}
-	}
-	if digits == 0 {
-		return 0, numSyntax
-	}
-	if markAt >= 0 {
-		m := b[markAt]
-		if m == ',' && !p.allowComma {
-			return 0, numSyntax
-		}
-		if p.mark == 0 {
-			p.mark = m
-		} else if p.mark != m {
-			return 0, numWrongMark
-		}
-		if m == ',' {
-			if len(b) > len(p.buf) {
-				return 0, numSyntax
-			}
-			n := copy(p.buf[:], b)
-			p.buf[markAt] = '.'
-			b = p.buf[:n]
-		}
-	}
-	v, err := strconv.ParseFloat(unsafe.String(unsafe.SliceData(b), len(b)), 64)
-	if err != nil {
-		var ne *strconv.NumError
-		if errors.As(err, &ne) && errors.Is(ne.Err, strconv.ErrRange) && math.IsInf(v, 0) {
+	if !ok {
+		// Not a plain decimal number.
+		if isNonFiniteWord(b) {
 			return 0, numNonFinite
 		}
 		return 0, numSyntax
 	}
+	if m != 0 {
+		if st := p.useMark(m); st != numOK {
+			return 0, st
+		}
+	}
 	return v, numOK
+}
+
+// useMark checks a decimal mark against the delimiter and against the
+// mark the file has used so far, which the first mark fixes.
+func (p *numberParser) useMark(m byte) numberStatus {
+	if m == ',' && !p.allowComma {
+		return numSyntax
+	}
+	if p.mark == 0 {
+		p.mark = m
+	} else if p.mark != m {
+		return numWrongMark
+	}
+	return numOK
 }
 
 // isNonFiniteWord reports whether b spells NaN or infinity in a way a
@@ -376,21 +340,19 @@ func (p *numberParser) parseLong(b []byte) (float64, numberStatus) {
 	markAt := bytes.IndexAny(b, ".,")
 	if markAt >= 0 {
 		m := b[markAt]
-		if m == ',' && !p.allowComma {
-			return 0, numSyntax
-		}
-		if p.mark == 0 {
-			p.mark = m
-		} else if p.mark != m {
-			return 0, numWrongMark
+		if st := p.useMark(m); st != numOK {
+			return 0, st
 		}
 		if m == ',' {
-			if len(b) > len(p.buf) {
-				return 0, numSyntax
+			var nb []byte
+			if len(b) <= len(p.buf) {
+				nb = p.buf[:len(b)]
+			} else {
+				nb = make([]byte, len(b)) // rare: a number longer than 64 characters
 			}
-			n := copy(p.buf[:], b)
-			p.buf[markAt] = '.'
-			b = p.buf[:n]
+			copy(nb, b)
+			nb[markAt] = '.'
+			b = nb
 		}
 	}
 	v, err := strconv.ParseFloat(unsafe.String(unsafe.SliceData(b), len(b)), 64)

@@ -90,6 +90,9 @@ var malformedCases = []malformedCase{
 		`bad.csv:4:2 (column "c1 X [V]"): quoted field not closed before the end of the line; expected fields separated by commas, quoted fields closed with a double quote`},
 	{"quote inside a field", "scan", scanHdr + "0,1\"5,2\n", "", 4, 2, ErrSyntax,
 		`bad.csv:4:2 (column "c1 X [V]"): quote inside an unquoted field; expected fields separated by commas, quoted fields closed with a double quote`},
+	// Found by FuzzFastDecimal: a form feed is not a space.
+	{"form feed before a number", "scan", scanHdr + "0,\f1,2\n", "", 4, 2, ErrSyntax,
+		`bad.csv:4:2 (column "c1 X [V]"): "\f1" is not a number; expected a decimal number in V`},
 	{"text after closing quote", "scan", scanHdr + "0,\"1\"x,2\n", "", 4, 2, ErrSyntax,
 		`bad.csv:4:2 (column "c1 X [V]"): 'x' after a closing quote; expected fields separated by commas, quoted fields closed with a double quote`},
 	{"mixed decimal marks", "scan", scanHdrS + "0;1,5;2\n0,001;1.5;2\n", "", 5, 2, ErrSyntax,

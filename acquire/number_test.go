@@ -81,3 +81,15 @@ func FuzzFastDecimal(f *testing.F) {
 		checkAgainstStrconv(t, s)
 	})
 }
+
+func TestLongDecimalComma(t *testing.T) {
+	t.Parallel()
+	// 70 significant digits of 1/3 with a decimal comma: strconv rounds
+	// to the double nearest 1/3.
+	s := "0," + strings.Repeat("3", 70)
+	p := numberParser{allowComma: true}
+	got, st := p.parse([]byte(s))
+	if want := 1.0 / 3; st != numOK || got != want {
+		t.Errorf("parse(%q) = %v, %v; want %v", s, got, st, want)
+	}
+}

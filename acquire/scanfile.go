@@ -367,33 +367,17 @@ func ReadScan(r io.Reader, name string) (*Scan, error) {
 		return nil, err
 	}
 	t := &table{lr: lr, comment: []byte("#"), nch: len(s.Channels)}
-	t.sp.delim = detectDelimiter(hdr)
-	t.num.allowComma = t.sp.delim != ','
-	cells, serr := t.sp.split(hdr)
-	if serr != nil {
-		return nil, &ParseError{File: name, Line: hdrLine, Column: serr.field, Err: kerr(ErrSyntax, serr.msg), Expected: "a header row of column names"}
-	}
-	t.cols = make([]column, len(cells))
-	first := map[string]int{}
-	for i, cell := range cells {
-		c := &t.cols[i]
-		c.header = strings.TrimSpace(string(cell))
-		perr := func(kind error, expected, format string, a ...any) error {
-			return &ParseError{File: name, Line: hdrLine, Column: i + 1, Field: c.header, Err: kerr(kind, fmt.Sprintf(format, a...)), Expected: expected}
-		}
-		h, ok := parseHeaderCell(c.header)
-		if !ok {
-			return nil, perr(ErrUnit, `a column name followed by its unit in brackets, such as "time [s]"`, "no unit in brackets")
-		}
-		var kind units.Kind
+	err = t.readHeader(name, hdr, hdrLine, "time [s]", func(c *column, h header) (units.Kind, *cellError) {
 		switch {
 		case strings.EqualFold(h.base, "time"):
-			c.role, kind = roleTime, units.Time
+			c.role = roleTime
+			return units.Time, nil
 		case strings.EqualFold(h.base, "position"):
-			c.role, kind = rolePos, units.Length
+			c.role = rolePos
+			return units.Length, nil
 		case strings.HasSuffix(h.base, " X") || strings.HasSuffix(h.base, " Y"):
 			chName := strings.TrimSpace(h.base[:len(h.base)-2])
-			c.role, kind = roleX, units.Voltage
+			c.role = roleX
 			if strings.HasSuffix(h.base, " Y") {
 				c.role = roleY
 			}
@@ -404,19 +388,14 @@ func ReadScan(r io.Reader, name string) (*Scan, error) {
 				}
 			}
 			if c.ch < 0 {
-				return nil, perr(ErrColumns, `a channel declared on a "# channel:" line before the header`, "no channel %q is declared", chName)
+				return 0, &cellError{ErrColumns, `a channel declared on a "# channel:" line before the header`, fmt.Sprintf("no channel %q is declared", chName)}
 			}
-		default:
-			return nil, perr(ErrColumns, `"time", "position" or "CHANNEL X" / "CHANNEL Y", each followed by its unit`, "unknown column %q", h.base)
+			return units.Voltage, nil
 		}
-		if !unitColumn(c, kind, h.unit, 1) {
-			return nil, perr(ErrUnit, fmt.Sprintf("a %s unit (%s)", kind, unitList(kind)), "unit %q is not a %s unit", h.unit, kind)
-		}
-		key := fmt.Sprintf("%d/%d", c.role, c.ch)
-		if j, dup := first[key]; dup {
-			return nil, perr(ErrColumns, "each column once", "duplicate of column %d %q", j+1, t.cols[j].header)
-		}
-		first[key] = i
+		return 0, &cellError{ErrColumns, `"time", "position" or "CHANNEL X" / "CHANNEL Y", each followed by its unit`, fmt.Sprintf("unknown column %q", h.base)}
+	})
+	if err != nil {
+		return nil, err
 	}
 	if t.indexOf(roleTime, 0) < 0 && t.indexOf(rolePos, 0) < 0 {
 		return nil, &ParseError{File: name, Line: hdrLine, Err: kerr(ErrColumns, "no time or position column"), Expected: `a column "time [s]" or "position [m]" (or both)`}
@@ -438,6 +417,51 @@ func ReadScan(r io.Reader, name string) (*Scan, error) {
 		s.Channels[k].Samples = t.chans[k]
 	}
 	return s, nil
+}
+
+// cellError is a problem with one header cell.
+type cellError struct {
+	kind          error
+	expected, msg string
+}
+
+// readHeader splits the header row, detecting the delimiter, and sets up
+// one column per cell: classify sets the column's role (and channel) from
+// the cell's name and returns the unit kind the cell's unit must have.
+// Each role and channel may have one column.
+func (t *table) readHeader(name string, hdr []byte, hdrLine int, example string, classify func(*column, header) (units.Kind, *cellError)) error {
+	t.sp.delim = detectDelimiter(hdr)
+	t.num.allowComma = t.sp.delim != ','
+	cells, serr := t.sp.split(hdr)
+	if serr != nil {
+		return &ParseError{File: name, Line: hdrLine, Column: serr.field, Err: kerr(ErrSyntax, serr.msg), Expected: "a header row of column names"}
+	}
+	t.cols = make([]column, len(cells))
+	first := map[[2]int]int{}
+	for i, cell := range cells {
+		c := &t.cols[i]
+		c.header = strings.TrimSpace(string(cell))
+		perr := func(ce *cellError) error {
+			return &ParseError{File: name, Line: hdrLine, Column: i + 1, Field: c.header, Err: kerr(ce.kind, ce.msg), Expected: ce.expected}
+		}
+		h, ok := parseHeaderCell(c.header)
+		if !ok {
+			return perr(&cellError{ErrUnit, fmt.Sprintf("a column name followed by its unit in brackets, such as %q", example), "no unit in brackets"})
+		}
+		kind, ce := classify(c, h)
+		if ce != nil {
+			return perr(ce)
+		}
+		if !unitColumn(c, kind, h.unit, 1) {
+			return perr(&cellError{ErrUnit, fmt.Sprintf("a %s unit (%s)", kind, unitList(kind)), fmt.Sprintf("unit %q is not a %s unit", h.unit, kind)})
+		}
+		key := [2]int{int(c.role), c.ch}
+		if j, dup := first[key]; dup {
+			return perr(&cellError{ErrColumns, "each column once", fmt.Sprintf("duplicate of column %d %q", j+1, t.cols[j].header)})
+		}
+		first[key] = i
+	}
+	return nil
 }
 
 // parseChannelDecl reads "NAME; FREQUENCY; MODE".
@@ -735,50 +759,31 @@ func ReadRaw(r io.Reader, name string) (*RawRecord, error) {
 		}
 	}
 	t := &table{lr: lr, comment: []byte("#"), rawTimeHz: rec.SampleRateHz, dropTime: true}
-	t.sp.delim = detectDelimiter(hdr)
-	t.num.allowComma = t.sp.delim != ','
-	cells, serr := t.sp.split(hdr)
-	if serr != nil {
-		return nil, &ParseError{File: name, Line: hdrLine, Column: serr.field, Err: kerr(ErrSyntax, serr.msg), Expected: "a header row of column names"}
-	}
-	t.cols = make([]column, len(cells))
-	first := map[role]int{}
-	for i, cell := range cells {
-		c := &t.cols[i]
-		c.header = strings.TrimSpace(string(cell))
-		perr := func(kind error, expected, format string, a ...any) error {
-			return &ParseError{File: name, Line: hdrLine, Column: i + 1, Field: c.header, Err: kerr(kind, fmt.Sprintf(format, a...)), Expected: expected}
-		}
-		h, ok := parseHeaderCell(c.header)
-		if !ok {
-			return nil, perr(ErrUnit, `a column name followed by its unit in brackets, such as "voltage [V]"`, "no unit in brackets")
-		}
-		var kind units.Kind
+	err = t.readHeader(name, hdr, hdrLine, "voltage [V]", func(c *column, h header) (units.Kind, *cellError) {
 		switch strings.ToLower(h.base) {
 		case "time":
-			c.role, kind = roleTime, units.Time
+			c.role = roleTime
+			return units.Time, nil
 		case "voltage":
-			c.role, kind = roleVoltage, units.Voltage
+			c.role = roleVoltage
+			return units.Voltage, nil
 		case "reference":
-			c.role, kind = roleReference, units.Voltage
+			c.role = roleReference
+			return units.Voltage, nil
 		case "position":
-			c.role, kind = rolePos, units.Length
-		default:
-			return nil, perr(ErrColumns, `"time", "voltage", "reference" or "position", each followed by its unit`, "unknown column %q", h.base)
+			c.role = rolePos
+			return units.Length, nil
 		}
-		if !unitColumn(c, kind, h.unit, 1) {
-			return nil, perr(ErrUnit, fmt.Sprintf("a %s unit (%s)", kind, unitList(kind)), "unit %q is not a %s unit", h.unit, kind)
-		}
-		if j, dup := first[c.role]; dup {
-			return nil, perr(ErrColumns, "each column once", "duplicate of column %d %q", j+1, t.cols[j].header)
-		}
-		first[c.role] = i
+		return 0, &cellError{ErrColumns, `"time", "voltage", "reference" or "position", each followed by its unit`, fmt.Sprintf("unknown column %q", h.base)}
+	})
+	if err != nil {
+		return nil, err
 	}
 	for _, req := range []struct {
 		r    role
 		want string
 	}{{roleTime, "time [s]"}, {roleVoltage, "voltage [V]"}} {
-		if _, ok := first[req.r]; !ok {
+		if t.indexOf(req.r, 0) < 0 {
 			return nil, &ParseError{File: name, Line: hdrLine, Err: kerr(ErrColumns, fmt.Sprintf("no %s column", strings.Fields(req.want)[0])), Expected: fmt.Sprintf("a column %q", req.want)}
 		}
 	}
