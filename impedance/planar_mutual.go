@@ -147,3 +147,37 @@ func heightOverlap(alpha, a, b, c, d float64) float64 {
 	}
 	return phi(b-c) - phi(a-c) - phi(b-d) + phi(a-d)
 }
+
+// DifferentialPlanar returns the terms of a coaxial (stacked) differential
+// pair of identical coils above a layered conductor: the sensing coil at
+// liftoffM and the reference coil gapM higher (centre spacing, ≥ the coil
+// length). Coil is the result of the lower coil; MutualL0H and MutualDZOhm
+// the coupling of the pair (MutualPlanar); OutputOhm the bridge output
+// Z_lower − Z_upper, which for a stacked pair over a uniform conductor is
+// the difference of the two coils' ΔZ (Z0 cancels). Side-by-side pairs are
+// not axisymmetric and are outside this model.
+func DifferentialPlanar(m *PlanarModel, liftoffM, gapM, freqHz float64, layers []Layer) (DifferentialResult, error) {
+	c := m.Coil()
+	if !(gapM >= c.LengthM) || math.IsInf(gapM, 0) {
+		return DifferentialResult{}, fmt.Errorf("coil spacing %v m: expected a finite value ≥ the coil length %v m", gapM, c.LengthM)
+	}
+	lower, err := m.Impedance(freqHz, liftoffM, layers)
+	if err != nil {
+		return DifferentialResult{}, err
+	}
+	upper, err := m.Impedance(freqHz, liftoffM+gapM, layers)
+	if err != nil {
+		return DifferentialResult{}, err
+	}
+	mu, err := MutualPlanar(c, c, liftoffM, liftoffM+gapM, freqHz, layers)
+	if err != nil {
+		return DifferentialResult{}, err
+	}
+	return DifferentialResult{
+		Coil:          lower,
+		MutualL0H:     mu.L0H,
+		MutualDZOhm:   mu.DZOhm,
+		OutputOhm:     lower.DZOhm - upper.DZOhm,
+		ErrorEstimate: mu.ErrorEstimate,
+	}, nil
+}

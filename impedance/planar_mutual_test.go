@@ -2,6 +2,7 @@ package impedance
 
 import (
 	"math"
+	"math/cmplx"
 	"testing"
 
 	"gonum.org/v1/gonum/floats/scalar"
@@ -92,5 +93,37 @@ func TestMutualPlanar(t *testing.T) {
 	}
 	if want := coilPairMaxwell(outer, 0.5e-3, inner, 0.5e-3, 1, 24); !scalar.EqualWithinRel(cc.L0H, want, 1e-7) {
 		t.Errorf("concentric air mutual = %.12g H, want %.12g H (Maxwell, 24⁴) ± 1e-7", cc.L0H, want)
+	}
+}
+
+// TestDifferentialPlanar checks the stacked pair: the output is the
+// difference of the two coils' ΔZ, far above the conductor it vanishes,
+// and the mutual term agrees with MutualPlanar (checked against Maxwell's
+// formula above).
+func TestDifferentialPlanar(t *testing.T) {
+	t.Parallel()
+	m := mustModel(t, coilC9)
+	hs := halfSpace(16.45e6, 1)
+	d, err := DifferentialPlanar(m, 1.32e-3, 4e-3, 1e4, hs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	up, _ := m.Impedance(1e4, 5.32e-3, hs)
+	if e := cRelErr(d.OutputOhm, d.Coil.DZOhm-up.DZOhm); e > 1e-14 {
+		t.Errorf("output %v, want ΔZ_lower − ΔZ_upper = %v", d.OutputOhm, d.Coil.DZOhm-up.DZOhm)
+	}
+	mu, _ := MutualPlanar(coilC9, coilC9, 1.32e-3, 5.32e-3, 1e4, hs)
+	if d.MutualDZOhm != mu.DZOhm || d.MutualL0H != mu.L0H {
+		t.Errorf("mutual %v/%g, want %v/%g", d.MutualDZOhm, d.MutualL0H, mu.DZOhm, mu.L0H)
+	}
+	far, err := DifferentialPlanar(m, 0.2, 4e-3, 1e4, hs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a := cmplx.Abs(far.OutputOhm) / cmplx.Abs(d.OutputOhm); a > 1e-6 {
+		t.Errorf("pair 0.2 m above the conductor: |output| ratio %g, want → 0", a)
+	}
+	if _, err := DifferentialPlanar(m, 1e-3, 1e-3, 1e4, hs); err == nil {
+		t.Errorf("spacing below the coil length: want an error")
 	}
 }

@@ -113,7 +113,8 @@ func (t TubeProbe) Impedance(freqHz float64) (Result, error) {
 }
 
 // DifferentialResult describes a differential pair of identical coaxial
-// coils in a uniform tube.
+// coils: in a uniform tube (TubeProbe.DifferentialImpedance) or stacked
+// above a layered plate (DifferentialPlanar).
 type DifferentialResult struct {
 	// Coil is the impedance of each coil alone (as TubeProbe.Impedance).
 	Coil Result
@@ -124,7 +125,8 @@ type DifferentialResult struct {
 	// OutputOhm is the bridge output Z1 − Z2. In a uniform tube both coils
 	// see the same material, so it is exactly 0; it departs from 0 only at
 	// a change of wall, material or a flaw, which these axisymmetric
-	// uniform-tube models do not describe.
+	// uniform-tube models do not describe. For a stacked planar pair it is
+	// ΔZ of the lower coil minus ΔZ of the upper one.
 	OutputOhm complex128
 	// ErrorEstimate is the relative error estimate of MutualDZOhm.
 	ErrorEstimate float64
