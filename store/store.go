@@ -234,6 +234,7 @@ type writer struct {
 	tx       *sql.Tx
 	actor    Actor
 	at       time.Time
+	atText   string // at as stored: RFC 3339 with nanoseconds, UTC
 	headSeq  int64
 	headHash string
 	stmts    map[*table]*sql.Stmt
@@ -242,7 +243,7 @@ type writer struct {
 	buf      []byte
 }
 
-func (w *writer) stamp() string { return w.at.Format(time.RFC3339Nano) }
+func (w *writer) stamp() string { return w.atText }
 
 // write runs fn in one IMMEDIATE transaction for actor and commits it.
 // Nothing is written when fn returns an error.
@@ -252,7 +253,8 @@ func (s *Store) write(ctx context.Context, actor Actor, what string, fn func(w *
 		return fmt.Errorf("%s: %w", what, err)
 	}
 	defer tx.Rollback()
-	w := &writer{tx: tx, actor: actor, at: s.now().UTC(), stmts: map[*table]*sql.Stmt{}, h: sha256.New()}
+	at := s.now().UTC()
+	w := &writer{tx: tx, actor: actor, at: at, atText: at.Format(time.RFC3339Nano), stmts: map[*table]*sql.Stmt{}, h: sha256.New()}
 	err = tx.QueryRowContext(ctx, "SELECT seq, hash FROM events ORDER BY seq DESC LIMIT 1").Scan(&w.headSeq, &w.headHash)
 	if err != nil && !errors.Is(err, sql.ErrNoRows) {
 		return fmt.Errorf("%s: %w", what, err)
