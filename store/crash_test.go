@@ -2,6 +2,7 @@ package store_test
 
 import (
 	"bufio"
+	"bytes"
 	"context"
 	"fmt"
 	"os"
@@ -83,6 +84,8 @@ func TestCrash(t *testing.T) {
 		killAfter := c.killAfter
 		cmd := exec.Command(os.Args[0], "-test.run=^TestHelperWriter$", "-test.count=1")
 		cmd.Env = append(os.Environ(), crashEnv+"="+path)
+		var stderr bytes.Buffer
+		cmd.Stderr = &stderr
 		out, err := cmd.StdoutPipe()
 		if err != nil {
 			t.Fatal(err)
@@ -92,10 +95,12 @@ func TestCrash(t *testing.T) {
 		}
 		sc := bufio.NewScanner(out)
 		reported := 0
+		var other []string
 		for sc.Scan() {
 			n, err := strconv.Atoi(sc.Text())
 			if err != nil {
-				continue // test framework output
+				other = append(other, sc.Text()) // test framework output or the writer's error
+				continue
 			}
 			reported = n
 			if n == killAfter {
@@ -106,7 +111,8 @@ func TestCrash(t *testing.T) {
 		}
 		cmd.Wait()
 		if reported < killAfter {
-			t.Fatalf("round %d: writer reported %d batches before it ended; want %d", round, reported, killAfter)
+			t.Fatalf("round %d: writer reported %d batches before it ended; want %d\nstdout: %q\nstderr: %s",
+				round, reported, killAfter, other, stderr.String())
 		}
 
 		s2, err := store.Open(ctx, path)
