@@ -36,6 +36,8 @@ type lineReader struct {
 	// sizeHint is the number of bytes the input holds when known (0
 	// otherwise); readers use it to size their sample slices once.
 	sizeHint int64
+	// consumed counts the bytes read so far (line ends included).
+	consumed int64
 	// pending is a line handed back by pushBack.
 	pending           []byte
 	pendingLine       int
@@ -101,6 +103,7 @@ func (lr *lineReader) next() ([]byte, bool, error) {
 		}
 		b = lr.long
 	}
+	lr.consumed += int64(len(b))
 	switch {
 	case err == io.EOF:
 		if len(b) == 0 {

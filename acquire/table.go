@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 )
@@ -141,6 +142,7 @@ func (t *table) readRows() error {
 		t.chans = make([][]complex128, t.nch)
 	}
 	var lines []int32 // line of each row, kept only for OrderSort
+	start := t.lr.consumed
 	var (
 		lastT, lastP         float64
 		lastTRaw, lastPRaw   float64
@@ -272,9 +274,6 @@ func (t *table) readRows() error {
 				lastP, lastPRaw, lastPLine, haveP = v, raws[iPos], ln, true
 			}
 		}
-		if t.rows == 0 && t.lr.sizeHint > 0 {
-			t.reserve(len(line)+1, iTime >= 0 && !t.dropTime, iPos >= 0, iVolt >= 0, iRef >= 0)
-		}
 		if iTime >= 0 && !t.dropTime {
 			t.timeS = append(t.timeS, vals[iTime])
 		}
@@ -291,6 +290,9 @@ func (t *table) readRows() error {
 			t.chans[ch] = append(t.chans[ch], complex(vals[xi[ch]], vals[yi[ch]]))
 		}
 		t.rows++
+		if t.rows == reserveAfterRows && t.lr.sizeHint > 0 {
+			t.reserve(t.lr.consumed - start)
+		}
 	}
 	if t.rows == 0 {
 		return &ParseError{File: t.lr.name, Line: t.lr.line, Err: kerr(ErrTruncated, "no rows of samples after the header row"), Expected: "at least one row of samples"}
@@ -309,43 +311,44 @@ func (t *table) readRows() error {
 	return nil
 }
 
+// reserveAfterRows is the number of rows read before the sample slices
+// are sized for the whole input.
+const reserveAfterRows = 64
+
 // reserve sizes the sample slices for the rows the input is expected to
-// hold, judged from its size and the length of the first row, so that a
-// large file is decoded without repeated growth. The reservation never
-// exceeds the size of the input text in bytes.
-func (t *table) reserve(rowBytes int, time, pos, volt, ref bool) {
-	perRow := 16 * t.nch
-	for _, b := range []bool{time, pos, volt, ref} {
-		if b {
+// hold, judged from its size and the bytes the first reserveAfterRows rows
+// took, so that a large file is decoded without repeated growth. The
+// reservation never exceeds the size of the input text in bytes.
+func (t *table) reserve(usedBytes int64) {
+	perRow := int64(16 * t.nch)
+	for _, s := range [][]float64{t.timeS, t.posM, t.volt, t.ref} {
+		if s != nil {
 			perRow += 8
 		}
 	}
-	if perRow == 0 {
+	if perRow == 0 || usedBytes <= 0 {
 		return
 	}
-	rows := t.lr.sizeHint/int64(rowBytes) + 1
-	rows += rows / 32
-	if rows*int64(perRow) > t.lr.sizeHint {
-		rows = t.lr.sizeHint / int64(perRow)
-	}
-	if rows < 2 {
+	remaining := t.lr.sizeHint - t.lr.consumed
+	if remaining <= 0 {
 		return
 	}
-	n := int(rows)
-	if time {
-		t.timeS = make([]float64, 0, n)
+	more := remaining*int64(reserveAfterRows)/usedBytes + 1
+	more += more / 64
+	if (int64(t.rows)+more)*perRow > t.lr.sizeHint {
+		more = t.lr.sizeHint/perRow - int64(t.rows)
 	}
-	if pos {
-		t.posM = make([]float64, 0, n)
+	if more < 1 {
+		return
 	}
-	if volt {
-		t.volt = make([]float64, 0, n)
-	}
-	if ref {
-		t.ref = make([]float64, 0, n)
+	n := int(more)
+	for _, s := range []*[]float64{&t.timeS, &t.posM, &t.volt, &t.ref} {
+		if *s != nil { // a column the input does not have stays nil
+			*s = slices.Grow(*s, n)
+		}
 	}
 	for k := range t.chans {
-		t.chans[k] = make([]complex128, 0, n)
+		t.chans[k] = slices.Grow(t.chans[k], n)
 	}
 }
 
