@@ -448,9 +448,18 @@ func (a *Analyzer) classify(ind *Indication, cc *calibrate.ChannelCal, zoned boo
 	cr := a.proc.Classification
 	isMix := a.cal.Mix(ind.Channel) != nil
 	ind.LandmarkRatio = a.depositRatio(ind)
-	// Angle from the channel's lift-off axis, 0–90°.
-	h := math.Mod(math.Abs(ind.PhaseDeg-cc.LiftoffDeg), 180)
-	h = math.Min(h, 180-h)
+	// Angles of the chord and of the steepest step from the channel's
+	// lift-off axis, 0–90°.
+	axis := func(ph float64) float64 {
+		h := math.Mod(math.Abs(ph-cc.LiftoffDeg), 180)
+		return math.Min(h, 180-h)
+	}
+	h, hr := axis(ind.PhaseDeg), axis(ind.MaxRatePhaseDeg)
+	// The steepest step is trusted only well above the noise (S/N at
+	// least three times the noise limit); below that it is noise itself.
+	if ind.SNR < 3*cr.MinSNR {
+		hr = 0
+	}
 	inBand := ind.PhaseDeg >= cr.FlawPhaseDeg[0] && ind.PhaseDeg <= cr.FlawPhaseDeg[1]
 	straight := ind.CrossVpp <= cr.GeometryMaxCross*ind.Vpp
 	switch {
@@ -458,7 +467,7 @@ func (a *Analyzer) classify(ind *Indication, cc *calibrate.ChannelCal, zoned boo
 		ind.Class, ind.Rule = ClassLandmark, RuleLandmarkZone
 	case zoned && isMix && !inBand && straight && ind.Vpp <= cr.ResidueMaxVpp:
 		ind.Class, ind.Rule = ClassLandmark, RuleResidue
-	case h <= cr.GeometryBandDeg && ind.Vpp >= cr.GeometryMinVpp && straight:
+	case h <= cr.GeometryBandDeg && hr <= cr.GeometryBandDeg && ind.Vpp >= cr.GeometryMinVpp && straight:
 		ind.Class, ind.Rule = ClassGeometry, RuleGeometry
 	case h <= cr.GeometryBandDeg && ind.Vpp >= cr.GeometryMinVpp:
 		ind.Class, ind.Rule = ClassReview, RuleComposite

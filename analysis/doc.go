@@ -36,11 +36,14 @@
 //	                              channel's lift-off axis (horizontal unless
 //	                              the set-up measures it; probe motion,
 //	                              lift-off, dents) and Vpp at
-//	                              least GeometryMinVpp, and a straight trace:
-//	                              cross extent at most GeometryMaxCross × Vpp
+//	                              least GeometryMinVpp, a straight trace
+//	                              (cross extent at most GeometryMaxCross ×
+//	                              Vpp), and, when S/N is at least 3 × MinSNR,
+//	                              the maximum-rate phase within the band too
 //	geometry-     analyst-review  the same lift-off-like chord, but the trace
-//	composite                     bulges across it: another signal rides on
-//	                              the geometry signal
+//	composite                     bulges across it or its steepest step
+//	                              leaves the lift-off axis: another signal
+//	                              rides on the geometry signal
 //	deposit       deposit         outside landmark zones, the landmark
 //	                              channel's calibrated Vpp in the window is
 //	                              at least DepositRatio × the indication's Vpp
