@@ -125,7 +125,7 @@ Examples:
 			fs.String("setup", "", "set-up file from 'whorl conductivity calibrate' (required)")
 			fs.String("thickness", "", "part thickness where the readings file gives none (e.g. 2mm)")
 			fs.String("material", "", "material for the temperature coefficient where the file gives none")
-			fs.Float64("alpha", math.NaN(), "temperature coefficient α per °C (overrides the material table)")
+			fs.String("alpha", "", "temperature coefficient α per °C, e.g. 0.0025 (overrides the material table)")
 			fs.String("target", "1%IACS", "accuracy target: results with 2u above it are flagged")
 			fs.String("solve", "conductivity", "unknowns: conductivity (with lift-off), thickness (with lift-off, at --conductivity) or all (conductivity, thickness and lift-off; two or more frequencies)")
 			fs.String("conductivity", "", "known conductivity for --solve thickness (e.g. 43%IACS)")
@@ -835,9 +835,13 @@ func runCondMeasure(_ context.Context, e *env, fs *flag.FlagSet, args []string) 
 	if err != nil {
 		return err
 	}
-	alphaFlag := flagFloat(fs, "alpha")
-	if flagSet(fs, "alpha") && (math.IsNaN(alphaFlag) || math.IsInf(alphaFlag, 0)) {
-		return usagef("--alpha must be a finite number")
+	alphaGiven := flagString(fs, "alpha") != ""
+	var alphaFlag float64
+	if alphaGiven {
+		alphaFlag, err = strconv.ParseFloat(strings.TrimSpace(flagString(fs, "alpha")), 64)
+		if err != nil || math.IsNaN(alphaFlag) || math.IsInf(alphaFlag, 0) || math.Abs(alphaFlag) > 0.1 {
+			return usagef("--alpha %q: expected a coefficient per °C such as 0.0025", flagString(fs, "alpha"))
+		}
 	}
 	var solve impedance.Unknown
 	switch flagString(fs, "solve") {
@@ -862,7 +866,7 @@ func runCondMeasure(_ context.Context, e *env, fs *flag.FlagSet, args []string) 
 	}
 	material := flagString(fs, "material")
 	if material != "" {
-		if _, ok := impedance.LookupTempCoefficient(material); !ok && !flagSet(fs, "alpha") {
+		if _, ok := impedance.LookupTempCoefficient(material); !ok && !alphaGiven {
 			return usagef("--material %q has no temperature coefficient: give --alpha (%s)", material, alphaNames())
 		}
 	}
@@ -918,7 +922,7 @@ func runCondMeasure(_ context.Context, e *env, fs *flag.FlagSet, args []string) 
 		if !math.IsNaN(tC) {
 			v := tC
 			res.TempC = &v
-			alpha, ok := alphaFlag, flagSet(fs, "alpha")
+			alpha, ok := alphaFlag, alphaGiven
 			if !ok && mat != "" {
 				if c, found := impedance.LookupTempCoefficient(mat); found {
 					alpha, ok = c.AlphaPerC, true
