@@ -207,13 +207,13 @@ func (d *CalibrationDesk) showDetail(det *viewmodel.CalibrationDetail) {
 	}
 	d.curves.Refresh()
 	// Located flaws.
-	txt := fmt.Sprintf("%-10s %-17s %6s %9s %8s %7s  %s\n", "flaw", "type", "%TW", "at / mm", "Vpp / V", "phase", "")
+	txt := fmt.Sprintf("%-10s %-17s %6s %9s %8s %7s  %s\n", "flaw", "type", "%TW", "at / mm", "Vpp / V", "phase", "(prime channel)")
 	for _, f := range det.Located {
 		if !f.Found {
 			txt += fmt.Sprintf("%-10s %-17s %6.0f %9s %8s %7s  not found: %s\n", f.FlawID, f.Type, f.DepthPct, "—", "—", "—", f.Note)
 			continue
 		}
-		txt += fmt.Sprintf("%-10s %-17s %6.0f %9.1f %8.3f %6.1f°  %s\n", f.FlawID, f.Type, f.DepthPct, f.PositionM*1000, f.VppV, f.PhaseDeg, f.Note)
+		txt += fmt.Sprintf("%-10s %-17s %6.0f %9.1f %8s %7s  %s\n", f.FlawID, f.Type, f.DepthPct, f.PositionM*1000, orDash("%.3f", f.VppV), orDash("%.1f°", f.PhaseDeg), f.Note)
 	}
 	d.flaws.SetText(txt)
 	ck := ""

@@ -62,7 +62,7 @@ var palettes = map[Variant]palette{
 		hover: color.NRGBA{0x00, 0x00, 0x00, 0x10}, sel: color.NRGBA{0x8A, 0x5A, 0x00, 0x33}, sep: rgb(0xD6, 0xD2, 0xC8),
 		grid: rgb(0xE0, 0xDC, 0xD2), axis: rgb(0xA8, 0xA2, 0x96), window: color.NRGBA{0x8A, 0x5A, 0x00, 0x1E},
 		winEdge: rgb(0x8A, 0x5A, 0x00), landmark: rgb(0x6E, 0x74, 0x7A), chord: okabeBlack,
-		channels: []color.NRGBA{okabeBlue, okabeVermillion, okabeGreen, okabePurple, okabeOrange, okabeSkyBlue, okabeBlack, rgb(0x99, 0x99, 0x99)},
+		channels: []color.NRGBA{okabeBlue, okabeVermillion, okabeGreen, okabePurple, okabeOrange, okabeSkyBlue, okabeBlack, rgb(0x5A, 0x5A, 0x5A)},
 	},
 }
 

@@ -54,6 +54,8 @@ type StripPanel struct {
 	YLo, YHi float64
 	// GridY are the vertical-axis tick values in volts.
 	GridY []float64
+
+	spanX, spanY []viewmodel.Span // decimation buffers
 }
 
 // StripScene is everything drawn for the strip charts: panels sharing one
@@ -79,10 +81,15 @@ func DecimateScene(p *StripPanel, chart *viewmodel.Chart, ch *acquire.Channel, e
 	if len(p.Traces) != len(parts) {
 		p.Traces = make([]Trace, len(parts))
 	}
+	// Both parts in one pass over the samples.
+	p.spanX, p.spanY = viewmodel.DecimateEnvelopeXY(p.spanX, p.spanY, env, ch.Samples, chart.Axis(), lo, hi, chart.ViewFrom, chart.ViewTo, cols)
 	ymin, ymax := math.Inf(1), math.Inf(-1)
 	for k, part := range parts {
 		t := &p.Traces[k]
-		t.Spans = viewmodel.DecimateEnvelope(t.Spans, env, ch.Samples, chart.Axis(), part, lo, hi, chart.ViewFrom, chart.ViewTo, cols)
+		t.Spans = p.spanX
+		if part == viewmodel.PartY {
+			t.Spans = p.spanY
+		}
 		t.Colour = colours[k%len(colours)]
 		for _, s := range t.Spans {
 			if !s.Empty {

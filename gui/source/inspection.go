@@ -557,10 +557,10 @@ func (in *Inspection) Calibration(ctx context.Context, id string) (*viewmodel.Ca
 	}
 	d := &viewmodel.CalibrationDetail{CalibrationSummary: viewmodel.CalibrationSummary{ID: rec.ID, Group: groupOf(rec.ID),
 		Version: rec.Version, State: string(rec.Status), ApprovedBy: rec.Approver}}
+	var std calibrate.Standard
 	if docs, err := in.st.Standards(ctx); err == nil {
 		for _, doc := range docs {
 			if doc.ID == cal.StandardSerial {
-				var std calibrate.Standard
 				if json.Unmarshal(doc.Body, &std) == nil {
 					d.Standard = viewmodel.StandardInfo{Serial: std.Serial, Material: std.Material, CertificateID: std.CertificateID}
 				}
@@ -594,7 +594,14 @@ func (in *Inspection) Calibration(ctx context.Context, id string) (*viewmodel.Ca
 	}
 	d.Channel = prime
 	for _, lf := range cal.Located {
-		f := viewmodel.LocatedFlaw{FlawID: lf.FlawID, PositionM: lf.PositionM, Found: lf.Found, Window: viewmodel.Window{Lo: lf.Window[0], Hi: lf.Window[1]}, Note: lf.Note}
+		f := viewmodel.LocatedFlaw{FlawID: lf.FlawID, PositionM: lf.PositionM, Found: lf.Found, Window: viewmodel.Window{Lo: lf.Window[0], Hi: lf.Window[1]},
+			Note: lf.Note, VppV: math.NaN(), PhaseDeg: math.NaN()}
+		if sf := std.Flaw(lf.FlawID); sf != nil {
+			f.Type = string(sf.Type)
+			if sf.Origin != "" {
+				f.Type += " " + string(sf.Origin)
+			}
+		}
 		for _, ab := range cal.AsBuilt {
 			if ab.FlawID == lf.FlawID {
 				f.DepthPct = ab.DepthPct
@@ -649,7 +656,7 @@ func (in *Inspection) Calibration(ctx context.Context, id string) (*viewmodel.Ca
 		}
 		for _, c := range g.Checks {
 			d.Checks = append(d.Checks, viewmodel.Check{Name: c.Reference + " " + c.Quantity, Pass: c.Pass,
-				Detail: fmt.Sprintf("measured %.2f %s, expected %.2f ± %.2f", c.Measured, c.Unit, c.Expected, c.Tolerance)})
+				Detail: fmt.Sprintf("%+.2f %s (limit %.2f ± %.2f)", c.Measured, c.Unit, c.Expected, c.Tolerance)})
 		}
 		verdict := "group valid"
 		if !g.Valid {

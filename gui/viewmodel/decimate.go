@@ -172,58 +172,79 @@ func NewEnvelope(z []complex128) *Envelope {
 // DecimateEnvelope gives the same result as Decimate, faster for long
 // ranges: each column's samples are found by binary search on the axis and
 // whole blocks inside a column are read from env. It falls back to
-// Decimate for a nil envelope or an axis that is not increasing.
+// Decimate for a nil envelope, an axis that is not increasing or a range
+// with fewer than four samples per column.
 func DecimateEnvelope(dst []Span, env *Envelope, samples []complex128, axis []float64, p Part, lo, hi int, from, to float64, cols int) []Span {
+	if p == PartX {
+		dst, _ = DecimateEnvelopeXY(dst, nil, env, samples, axis, lo, hi, from, to, cols)
+		return dst
+	}
+	_, dst = DecimateEnvelopeXY(nil, dst, env, samples, axis, lo, hi, from, to, cols)
+	return dst
+}
+
+// DecimateEnvelopeXY decimates X into dstX and Y into dstY in one pass
+// (see DecimateEnvelope); a nil dstX or dstY with zero capacity is
+// allocated, and both are returned with length cols.
+func DecimateEnvelopeXY(dstX, dstY []Span, env *Envelope, samples []complex128, axis []float64, lo, hi int, from, to float64, cols int) ([]Span, []Span) {
 	increasing := axis == nil || len(axis) < 2 || axis[len(axis)-1] >= axis[0]
 	if env == nil || !increasing || cols <= 0 || !(to > from) || hi-lo < 4*cols {
-		return Decimate(dst, samples, axis, p, lo, hi, from, to, cols)
+		return Decimate(dstX, samples, axis, PartX, lo, hi, from, to, cols), Decimate(dstY, samples, axis, PartY, lo, hi, from, to, cols)
 	}
-	if cols < 0 || lo < 0 || hi > len(samples) || lo > hi || (axis != nil && len(axis) < len(samples)) {
+	if lo < 0 || hi > len(samples) || lo > hi || (axis != nil && len(axis) < len(samples)) {
 		panic("viewmodel: DecimateEnvelope range out of bounds")
 	}
-	if cap(dst) < cols {
-		dst = make([]Span, cols)
+	if cap(dstX) < cols {
+		dstX = make([]Span, cols)
 	}
-	dst = dst[:cols]
+	if cap(dstY) < cols {
+		dstY = make([]Span, cols)
+	}
+	dstX, dstY = dstX[:cols], dstY[:cols]
 	scale := float64(cols) / (to - from)
-	col := func(i int) int {
-		x := float64(i)
-		if axis != nil {
-			x = axis[i]
-		}
-		return int((x - from) * scale)
-	}
-	lmin, lmax := env.xmin, env.xmax
-	if p == PartY {
-		lmin, lmax = env.ymin, env.ymax
-	}
 	b := env.block
+	inf := float32(math.Inf(1))
 	start := lo
 	for c := range cols {
 		end := hi
 		if c < cols-1 {
-			// First sample of [start, hi) that belongs to a later column.
-			end = start + sort.Search(hi-start, func(k int) bool { return col(start+k) >= c+1 })
-		}
-		s := Span{Min: float32(math.Inf(1)), Max: float32(math.Inf(-1)), Empty: end <= start}
-		i := start
-		raw := func(to int) {
-			for ; i < to; i++ {
-				v := float32(real(samples[i]))
-				if p == PartY {
-					v = float32(imag(samples[i]))
+			// First sample of [start, hi) in a later column: the smallest i
+			// with int((axis[i]−from)·scale) ≥ c+1 (the mapping of Decimate).
+			l, h := start, hi
+			for l < h {
+				m := int(uint(l+h) >> 1)
+				x := float64(m)
+				if axis != nil {
+					x = axis[m]
 				}
-				s.Min, s.Max = min(s.Min, v), max(s.Max, v)
+				if int((x-from)*scale) >= c+1 {
+					h = m
+				} else {
+					l = m + 1
+				}
 			}
+			end = l
 		}
-		raw(min(end, (i+b-1)/b*b))
+		xlo, xhi, ylo, yhi := inf, -inf, inf, -inf
+		i := start
+		head := min(end, (i+b-1)/b*b)
+		for ; i < head; i++ {
+			x, y := float32(real(samples[i])), float32(imag(samples[i]))
+			xlo, xhi, ylo, yhi = min(xlo, x), max(xhi, x), min(ylo, y), max(yhi, y)
+		}
 		for ; i+b <= end; i += b {
 			k := i / b
-			s.Min, s.Max = min(s.Min, lmin[k]), max(s.Max, lmax[k])
+			xlo, xhi = min(xlo, env.xmin[k]), max(xhi, env.xmax[k])
+			ylo, yhi = min(ylo, env.ymin[k]), max(yhi, env.ymax[k])
 		}
-		raw(end)
-		dst[c] = s
+		for ; i < end; i++ {
+			x, y := float32(real(samples[i])), float32(imag(samples[i]))
+			xlo, xhi, ylo, yhi = min(xlo, x), max(xhi, x), min(ylo, y), max(yhi, y)
+		}
+		empty := end <= start
+		dstX[c] = Span{Min: xlo, Max: xhi, Empty: empty}
+		dstY[c] = Span{Min: ylo, Max: yhi, Empty: empty}
 		start = end
 	}
-	return dst
+	return dstX, dstY
 }
