@@ -16,7 +16,7 @@ import (
 // BuildOptions identify who builds a calibration and when.
 type BuildOptions struct {
 	// ID is the calibration's identifier; empty derives one from the
-	// standard serial and the build time.
+	// standard serial, the scan's calibration group and the build time.
 	ID string
 	// Builder is the person building the calibration.
 	Builder string
@@ -166,7 +166,11 @@ func Build(std *Standard, proc *Procedure, scan *acquire.Scan, opt BuildOptions)
 		cal.Lobe = LobeLater
 	}
 	if cal.ID == "" {
-		cal.ID = fmt.Sprintf("CAL-%s-%s", std.Serial, at.UTC().Format("20060102T150405Z"))
+		grp := ""
+		if scan.Meta.CalGroup != "" {
+			grp = scan.Meta.CalGroup + "-"
+		}
+		cal.ID = fmt.Sprintf("CAL-%s-%s%s", std.Serial, grp, at.UTC().Format("20060102T150405Z"))
 	}
 	if !scan.Meta.Start.IsZero() {
 		cal.ScanStart = scan.Meta.Start.UTC().Format(time.RFC3339Nano)

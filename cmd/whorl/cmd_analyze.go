@@ -142,7 +142,7 @@ func runAnalyze(ctx context.Context, e *env, fs *flag.FlagSet, args []string) er
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			analyzers := map[string]*analysis.Analyzer{}
+			analyzers := map[*calibrate.Calibration]*analysis.Analyzer{}
 			for i := range jobs {
 				r := &results[i]
 				r.file = files[i]
@@ -162,10 +162,10 @@ func runAnalyze(ctx context.Context, e *env, fs *flag.FlagSet, args []string) er
 						continue
 					}
 				}
-				a := analyzers[c.ID]
+				a := analyzers[c]
 				if a == nil {
 					a, _ = analysis.NewAnalyzer(c, proc) // checked above
-					analyzers[c.ID] = a
+					analyzers[c] = a
 				}
 				r.ind, r.rep, r.err = a.Analyze(ctx, s)
 				if r.err != nil {
