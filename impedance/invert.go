@@ -142,8 +142,19 @@ func (c *Calibration) Invert(m PlanarForward, readings []Reading, opt InvertOpti
 	if solve&SolveConductivity == 0 && !(sp.ConductivitySPerM > 0) {
 		return Inversion{}, fmt.Errorf("a fixed conductivity must be positive")
 	}
+	liftStart := opt.ExtraLiftoffM
+	// A second start (the nearest reference itself) is tried when the
+	// first fails.
+	var retry []float64
 	if solve&SolveConductivity != 0 && !(sp.ConductivitySPerM > 0) {
-		sp.ConductivitySPerM = c.nearestReference(readings[0])
+		s0, l0, sN, lN := c.startFromReferences(readings[0])
+		sp.ConductivitySPerM = s0
+		if solve&SolveLiftoff != 0 && liftStart == 0 && solve&SolveThickness == 0 {
+			liftStart = l0
+			if s0 != sN || l0 != lN {
+				retry = []float64{sN, lN}
+			}
+		}
 	}
 	// Parameter layout: [ln σ] [ℓ] [ln t].
 	iC, iL, iT := -1, -1, -1
@@ -157,7 +168,7 @@ func (c *Calibration) Invert(m PlanarForward, readings []Reading, opt InvertOpti
 	}
 	if solve&SolveLiftoff != 0 {
 		iL = len(x0)
-		x0 = append(x0, opt.ExtraLiftoffM)
+		x0 = append(x0, liftStart)
 		step = append(step, 1e-5*rbar)
 	}
 	if solve&SolveThickness != 0 {
@@ -200,6 +211,10 @@ func (c *Calibration) Invert(m PlanarForward, readings []Reading, opt InvertOpti
 	mres := 2 * len(readings)
 	prob := &lmProblem{m: mres, residual: residual, step: step, maxIter: 100, tol: 1e-14}
 	res, err := prob.solve(x0)
+	if err != nil && retry != nil {
+		x0[iC], x0[iL] = math.Log(retry[0]), retry[1]
+		res, err = prob.solve(x0)
+	}
 	if err != nil {
 		return Inversion{}, explainSingular(fmt.Errorf("inversion: %w", err), solve)
 	}
@@ -340,24 +355,70 @@ func (c *Calibration) inversionCovariance(m PlanarForward, readings []Reading, c
 	return cov, nil
 }
 
-// nearestReference returns the conductivity of the conducting reference
-// whose modelled reading at the reading's frequency is nearest to it: a
-// starting value for the inversion.
-func (c *Calibration) nearestReference(r Reading) float64 {
-	best, bestD := 0.0, math.Inf(1)
+// startFromReferences returns starting values of conductivity and extra
+// lift-off for a reading, from the calibration references at its frequency
+// and without model evaluations: the nearest reference, moved by one
+// Newton step on the impedance plane whose derivatives are the differences
+// to the nearest references of another conductivity at the same lift-off
+// and of another lift-off at the same conductivity. The step is skipped
+// when those neighbours are missing or it leaves the span of the
+// references.
+func (c *Calibration) startFromReferences(r Reading) (sigma, liftoff, sigmaNear, liftoffNear float64) {
+	var refs []CalResidual
 	for _, ref := range c.Residuals {
-		if ref.ConductivitySPerM <= 0 || math.Abs(ref.FreqHz-r.FreqHz) > 1e-9*r.FreqHz {
-			continue
-		}
-		d := cmplxAbs(ref.ModelV - r.V)
-		if d < bestD {
-			best, bestD = ref.ConductivitySPerM, d
+		if ref.ConductivitySPerM > 0 && math.Abs(ref.FreqHz-r.FreqHz) <= 1e-9*r.FreqHz {
+			refs = append(refs, ref)
 		}
 	}
-	if best == 0 {
-		best = math.Sqrt(c.ConductivityRangeSPerM[0] * c.ConductivityRangeSPerM[1])
+	if len(refs) == 0 {
+		s := math.Sqrt(c.ConductivityRangeSPerM[0] * c.ConductivityRangeSPerM[1])
+		return s, 0, s, 0
 	}
-	return best
+	best := 0
+	for i, ref := range refs {
+		if cmplxAbs(ref.ModelV-r.V) < cmplxAbs(refs[best].ModelV-r.V) {
+			best = i
+		}
+	}
+	r0 := refs[best]
+	sigma, liftoff = r0.ConductivitySPerM, r0.ExtraLiftoffM
+	sigmaNear, liftoffNear = sigma, liftoff
+	n1, n2 := -1, -1
+	for i, ref := range refs {
+		switch {
+		case ref.ExtraLiftoffM == r0.ExtraLiftoffM && ref.ConductivitySPerM != r0.ConductivitySPerM:
+			if n1 < 0 || cmplxAbs(ref.ModelV-r0.ModelV) < cmplxAbs(refs[n1].ModelV-r0.ModelV) {
+				n1 = i
+			}
+		case ref.ConductivitySPerM == r0.ConductivitySPerM && ref.ExtraLiftoffM != r0.ExtraLiftoffM:
+			if n2 < 0 || cmplxAbs(ref.ModelV-r0.ModelV) < cmplxAbs(refs[n2].ModelV-r0.ModelV) {
+				n2 = i
+			}
+		}
+	}
+	if n1 < 0 || n2 < 0 {
+		return sigma, liftoff, sigmaNear, liftoffNear
+	}
+	// Columns: dV/d(ln σ) and dV/dℓ by differences; solve the 2×2 real
+	// system a·x = V − V0.
+	ds := math.Log(refs[n1].ConductivitySPerM / sigma)
+	dl := refs[n2].ExtraLiftoffM - liftoff
+	a := (refs[n1].ModelV - r0.ModelV) / complex(ds, 0)
+	b := (refs[n2].ModelV - r0.ModelV) / complex(dl, 0)
+	d := r.V - r0.ModelV
+	det := real(a)*imag(b) - imag(a)*real(b)
+	if det == 0 {
+		return sigma, liftoff, sigmaNear, liftoffNear
+	}
+	x := (real(d)*imag(b) - imag(d)*real(b)) / det
+	y := (real(a)*imag(d) - imag(a)*real(d)) / det
+	s1, l1 := sigma*math.Exp(x), liftoff+y
+	lo, hi := c.ConductivityRangeSPerM[0], c.ConductivityRangeSPerM[1]
+	llo, lhi := c.ExtraLiftoffRangeM[0], c.ExtraLiftoffRangeM[1]
+	if s1 < lo/2 || s1 > 2*hi || l1 < llo-(lhi-llo) || l1 < -c.LiftoffM/2 || l1 > 2*lhi+1e-4 || math.IsNaN(s1+l1) {
+		return sigma, liftoff, sigmaNear, liftoffNear
+	}
+	return s1, l1, sigmaNear, liftoffNear
 }
 
 func (c *Calibration) freqList() string {
