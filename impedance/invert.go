@@ -364,27 +364,29 @@ func (c *Calibration) inversionCovariance(m PlanarForward, readings []Reading, c
 // when those neighbours are missing or it leaves the span of the
 // references.
 func (c *Calibration) startFromReferences(r Reading) (sigma, liftoff, sigmaNear, liftoffNear float64) {
-	var refs []CalResidual
-	for _, ref := range c.Residuals {
-		if ref.ConductivitySPerM > 0 && math.Abs(ref.FreqHz-r.FreqHz) <= 1e-9*r.FreqHz {
-			refs = append(refs, ref)
-		}
+	refs := c.Residuals
+	use := func(ref *CalResidual) bool {
+		return ref.ConductivitySPerM > 0 && math.Abs(ref.FreqHz-r.FreqHz) <= 1e-9*r.FreqHz
 	}
-	if len(refs) == 0 {
-		s := math.Sqrt(c.ConductivityRangeSPerM[0] * c.ConductivityRangeSPerM[1])
-		return s, 0, s, 0
-	}
-	best := 0
-	for i, ref := range refs {
-		if cmplxAbs(ref.ModelV-r.V) < cmplxAbs(refs[best].ModelV-r.V) {
+	best := -1
+	for i := range refs {
+		if use(&refs[i]) && (best < 0 || cmplxAbs(refs[i].ModelV-r.V) < cmplxAbs(refs[best].ModelV-r.V)) {
 			best = i
 		}
 	}
-	r0 := refs[best]
+	if best < 0 {
+		s := math.Sqrt(c.ConductivityRangeSPerM[0] * c.ConductivityRangeSPerM[1])
+		return s, 0, s, 0
+	}
+	r0 := &refs[best]
 	sigma, liftoff = r0.ConductivitySPerM, r0.ExtraLiftoffM
 	sigmaNear, liftoffNear = sigma, liftoff
 	n1, n2 := -1, -1
-	for i, ref := range refs {
+	for i := range refs {
+		ref := &refs[i]
+		if !use(ref) {
+			continue
+		}
 		switch {
 		case ref.ExtraLiftoffM == r0.ExtraLiftoffM && ref.ConductivitySPerM != r0.ConductivitySPerM:
 			if n1 < 0 || cmplxAbs(ref.ModelV-r0.ModelV) < cmplxAbs(refs[n1].ModelV-r0.ModelV) {
