@@ -258,3 +258,26 @@ func FuzzParseCalibration(f *testing.F) {
 		}
 	})
 }
+
+// TestBuildReversedTravel: a standard scanned in the opposite direction
+// (positions decreasing, scale −1) is located as well, and the set-up
+// still puts the references at their angle and voltage.
+func TestBuildReversedTravel(t *testing.T) {
+	t.Parallel()
+	m := calibtest.Demo()
+	m.Scale, m.OffsetM = -1, 1.2
+	std := calibtest.Standard()
+	cal, err := calibrate.Build(std, mustProcedure(t), m.Scan("STD", m.StandardFeatures(std), rand.New(rand.NewPCG(5, 5))), calibrate.BuildOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, l := range cal.Located {
+		if want := 1.2 - l.ExpectedM; !l.Found || math.Abs(l.PositionM-want) > 0.005 {
+			t.Errorf("flaw %s: found %v at %.4f m, want %.4f m", l.FlawID, l.Found, l.PositionM, want)
+		}
+	}
+	cc := cal.Channel("400k-diff")
+	if math.Abs(cc.RefPhaseDeg-40) > 0.5 || math.Abs(cc.RefVpp-4) > 0.04 {
+		t.Errorf("set-up: reference at %.2f°, %.3f V; want 40°, 4 V", cc.RefPhaseDeg, cc.RefVpp)
+	}
+}
