@@ -1,6 +1,7 @@
 package reports_test
 
 import (
+	"fmt"
 	"io"
 	"testing"
 
@@ -30,6 +31,34 @@ func BenchmarkWriteIndicationsCSV(b *testing.B) {
 	b.ReportAllocs()
 	for b.Loop() {
 		if err := reports.WriteIndicationsCSV(io.Discard, in); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkWritePDFManyFigures writes the fixture report with 40
+// reportable indications, each with its signal window: 81 figures (one
+// curve, an impedance plane and a strip chart per indication).
+func BenchmarkWritePDFManyFigures(b *testing.B) {
+	_, in := fixture(b)
+	var rep []reports.Indication
+	for _, d := range in.Indications {
+		if d.Reportable() && d.Window != nil {
+			rep = append(rep, d)
+		}
+	}
+	if len(rep) == 0 {
+		b.Fatal("fixture has no reportable indication with a signal window")
+	}
+	in.Indications = in.Indications[:0]
+	for i := range 40 {
+		d := rep[i%len(rep)]
+		d.ID = fmt.Sprintf("%s-%d", d.ID, i)
+		in.Indications = append(in.Indications, d)
+	}
+	b.ReportAllocs()
+	for b.Loop() {
+		if err := reports.WritePDF(io.Discard, in); err != nil {
 			b.Fatal(err)
 		}
 	}

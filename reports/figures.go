@@ -1,22 +1,16 @@
 package reports
 
 import (
-	"bytes"
 	"errors"
 	"fmt"
 	"image/color"
 	"math"
 
 	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/font"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
-	"gonum.org/v1/plot/vg/vgimg"
-)
-
-// Figure sizes on the page, in millimetres, and raster resolution.
-const (
-	figDPI = 150
 )
 
 var (
@@ -25,14 +19,24 @@ var (
 	traceRed  = color.RGBA{R: 170, G: 30, B: 30, A: 255}
 )
 
-func renderPNG(p *plot.Plot, wMM, hMM float64) ([]byte, error) {
-	c := vgimg.NewWith(vgimg.UseWH(vg.Length(wMM)*vg.Millimeter, vg.Length(hMM)*vg.Millimeter), vgimg.UseDPI(figDPI))
+// drawFigure draws p as vector graphics into the rectangle of the current
+// page with top-left corner (x, y) and size w × h millimetres.
+func (pw *pdfw) drawFigure(p *plot.Plot, x, y, w, h float64) {
+	c := newPDFCanvas(pw.f, "sans", x, y, w, h)
 	p.Draw(draw.New(c))
-	var b bytes.Buffer
-	if _, err := (vgimg.PngCanvas{Canvas: c}).WriteTo(&b); err != nil {
-		return nil, fmt.Errorf("render figure: %w", err)
+	c.finish()
+}
+
+// newPlot returns a plot whose text is set in Liberation Sans, the
+// report's font, so that the widths gonum/plot measures are those of the
+// glyphs the PDF shows.
+func newPlot() *plot.Plot {
+	p := plot.New()
+	for _, f := range []*font.Font{&p.Title.TextStyle.Font, &p.X.Label.TextStyle.Font, &p.Y.Label.TextStyle.Font,
+		&p.X.Tick.Label.Font, &p.Y.Tick.Label.Font, &p.Legend.TextStyle.Font} {
+		f.Typeface, f.Variant = "Liberation", "Sans"
 	}
-	return b.Bytes(), nil
+	return p
 }
 
 func finite(vs ...float64) bool {
@@ -55,7 +59,7 @@ func padRange(lo, hi float64) (float64, float64) {
 }
 
 // curveFigure plots depth (%TW) against phase (degrees) for a calibration.
-func curveFigure(c *Calibration, wMM, hMM float64) ([]byte, error) {
+func curveFigure(c *Calibration) (*plot.Plot, error) {
 	if len(c.Points) == 0 {
 		return nil, errors.New("no curve points")
 	}
@@ -66,7 +70,7 @@ func curveFigure(c *Calibration, wMM, hMM float64) ([]byte, error) {
 		}
 		pts[i] = plotter.XY{X: degrees(q.PhaseRad), Y: q.DepthPct}
 	}
-	p := plot.New()
+	p := newPlot()
 	p.Title.Text = "Phase to depth"
 	p.X.Label.Text = "Phase (deg)"
 	p.Y.Label.Text = "Depth (%TW)"
@@ -82,7 +86,7 @@ func curveFigure(c *Calibration, wMM, hMM float64) ([]byte, error) {
 	}
 	s.Color = traceDark
 	p.Add(l, s)
-	return renderPNG(p, wMM, hMM)
+	return p, nil
 }
 
 func checkWindow(w *Window, start, end int) error {
@@ -105,7 +109,7 @@ func checkWindow(w *Window, start, end int) error {
 // lissajousFigure plots Y against X (the impedance plane) over the signal
 // window in grey and the measurement window in dark blue, with equal
 // scales on both axes so that phase angles appear true.
-func lissajousFigure(d *Indication, wMM, hMM float64) ([]byte, error) {
+func lissajousFigure(d *Indication) (*plot.Plot, error) {
 	w := d.Window
 	if err := checkWindow(w, d.StartSample, d.EndSample); err != nil {
 		return nil, err
@@ -115,7 +119,7 @@ func lissajousFigure(d *Indication, wMM, hMM float64) ([]byte, error) {
 		all[i] = plotter.XY{X: w.X[i], Y: w.Y[i]}
 	}
 	meas := all[d.StartSample-w.FirstSample : d.EndSample-w.FirstSample]
-	p := plot.New()
+	p := newPlot()
 	p.Title.Text = "Impedance plane"
 	p.X.Label.Text = "X (V)"
 	p.Y.Label.Text = "Y (V)"
@@ -146,12 +150,12 @@ func lissajousFigure(d *Indication, wMM, hMM float64) ([]byte, error) {
 	xc, yc := (xlo+xhi)/2, (ylo+yhi)/2
 	p.X.Min, p.X.Max = xc-span/2, xc+span/2
 	p.Y.Min, p.Y.Max = yc-span/2, yc+span/2
-	return renderPNG(p, wMM, hMM)
+	return p, nil
 }
 
 // stripFigure plots X and Y against sample number, with the measurement
 // window marked by two vertical lines.
-func stripFigure(d *Indication, wMM, hMM float64) ([]byte, error) {
+func stripFigure(d *Indication) (*plot.Plot, error) {
 	w := d.Window
 	if err := checkWindow(w, d.StartSample, d.EndSample); err != nil {
 		return nil, err
@@ -167,7 +171,7 @@ func stripFigure(d *Indication, wMM, hMM float64) ([]byte, error) {
 	}
 	lo, hi = padRange(lo, hi)
 	hi += 0.25 * (hi - lo) // headroom for the legend
-	p := plot.New()
+	p := newPlot()
 	p.Title.Text = "Strip chart"
 	p.X.Label.Text = "Sample"
 	p.Y.Label.Text = "Volts"
@@ -197,5 +201,5 @@ func stripFigure(d *Indication, wMM, hMM float64) ([]byte, error) {
 		p.Add(m)
 	}
 	p.Y.Min, p.Y.Max = lo, hi
-	return renderPNG(p, wMM, hMM)
+	return p, nil
 }

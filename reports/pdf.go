@@ -12,6 +12,7 @@ import (
 	"codeberg.org/go-fonts/liberation/liberationsansbold"
 	"codeberg.org/go-fonts/liberation/liberationsansregular"
 	"codeberg.org/go-pdf/fpdf"
+	"gonum.org/v1/plot"
 
 	"whorl/internal/version"
 	"whorl/store"
@@ -375,7 +376,7 @@ func (p *pdfw) calibrationSection() {
 		if len(c.Points) == 0 {
 			continue
 		}
-		png, err := curveFigure(c, fw, fh)
+		fig, err := curveFigure(c)
 		if col == 0 {
 			p.ensure(fh + 8)
 		}
@@ -387,9 +388,7 @@ func (p *pdfw) calibrationSection() {
 			p.f.SetXY(x, y+5)
 			p.f.MultiCell(fw, 4, pdfText("Curve not drawn: "+err.Error(), false), "", "L", false)
 		} else {
-			name := fmt.Sprintf("curve-%d", i)
-			p.f.RegisterImageOptionsReader(name, fpdf.ImageOptions{ImageType: "PNG"}, bytes.NewReader(png))
-			p.f.ImageOptions(name, x, y+4.5, fw, fh, false, fpdf.ImageOptions{ImageType: "PNG"}, 0, "")
+			p.drawFigure(fig, x, y+4.5, fw, fh)
 		}
 		col++
 		if col == 2 {
@@ -552,7 +551,7 @@ func (p *pdfw) figureSection() {
 		"and the strip chart (X and Y against sample; the measurement window between the dotted lines), with the call history.", "", 8.5)
 	p.f.Ln(1)
 	const fw, fh = 88.0, 64.0
-	for k, d := range rep {
+	for _, d := range rep {
 		var hist []string
 		for _, c := range d.Calls {
 			s := fmt.Sprintf("v%d %s: %s, class %s, by %s (%s) %s", c.Version, c.Kind, c.Status, c.Class, c.By, c.Role, fmtDate(c.At))
@@ -595,18 +594,16 @@ func (p *pdfw) figureSection() {
 			p.f.MultiCell(bodyW, 3.4, pdfText(clipText("Signal: "+d.Window.Note, 300), false), "", "L", false)
 		}
 		y := p.f.GetY() + 1
-		for j, fig := range []func(*Indication, float64, float64) ([]byte, error){lissajousFigure, stripFigure} {
+		for j, figure := range []func(*Indication) (*plot.Plot, error){lissajousFigure, stripFigure} {
 			x := marginL + float64(j)*(fw+4)
-			png, err := fig(d, fw, fh)
+			fig, err := figure(d)
 			if err != nil {
 				p.f.SetXY(x, y)
 				p.font("", 8)
 				p.f.MultiCell(fw, 4, pdfText("Figure not drawn: "+err.Error(), false), "1", "L", false)
 				continue
 			}
-			name := fmt.Sprintf("ind-%d-%d", k, j)
-			p.f.RegisterImageOptionsReader(name, fpdf.ImageOptions{ImageType: "PNG"}, bytes.NewReader(png))
-			p.f.ImageOptions(name, x, y, fw, fh, false, fpdf.ImageOptions{ImageType: "PNG"}, 0, "")
+			p.drawFigure(fig, x, y, fw, fh)
 		}
 		p.f.SetXY(marginL, y+fh+3)
 	}
