@@ -378,6 +378,7 @@ func SignIn(win fyne.Window, done func(viewmodel.Actor)) {
 		}
 		done(a)
 	}
+	name.OnSubmitted = func(string) { form.OnSubmit() }
 	head := widget.NewLabel("Who is at this workstation? Every call and approval is recorded under this name and role.")
 	head.Wrapping = fyne.TextWrapWord
 	caution := widget.NewLabel("Caution: " + Caution)

@@ -102,6 +102,9 @@ func (t *Theme) Color(name fyne.ThemeColorName, _ fyne.ThemeVariant) color.Color
 	case theme.ColorNameError:
 		return okabeVermillion
 	case theme.ColorNameWarning:
+		if t.Variant == Light {
+			return rgb(0x9A, 0x52, 0x00) // Okabe–Ito orange darkened for contrast on paper
+		}
 		return okabeOrange
 	case theme.ColorNameSuccess:
 		return okabeGreen

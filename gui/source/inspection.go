@@ -415,7 +415,7 @@ func splitLocation(s string) (string, float64) {
 	if len(f) != 2 || (f[1] != "m" && f[1] != "mm") {
 		return s, 0
 	}
-	if _, err := fmt.Sscanf(f[0], "%g", &v); err != nil {
+	if _, err := fmt.Sscanf(f[0], "%g", &v); err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
 		return s, 0
 	}
 	if f[1] == "mm" {

@@ -2,6 +2,7 @@ package source
 
 import (
 	"context"
+	"fmt"
 	"math"
 	"testing"
 
@@ -89,4 +90,26 @@ func TestSplitLocation(t *testing.T) {
 			t.Errorf("splitLocation(%q) = %q, %v; want %q, %v", tc.in, name, off, tc.name, tc.offsetM)
 		}
 	}
+}
+
+// FuzzSplitLocation checks that any location text parses without panic
+// and that a parsed offset is finite and round-trips through the
+// analysis's "%+.3f m from NAME" form.
+func FuzzSplitLocation(f *testing.F) {
+	for _, s := range []string{"+0.120 m from support-3", "-12.5 mm from tubesheet-1", "near the U-bend", " from ", "1e309 m from x", "NaN m from y"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		name, off := splitLocation(s)
+		if math.IsNaN(off) || math.IsInf(off, 0) {
+			t.Fatalf("splitLocation(%q) = %q, %v: non-finite offset", s, name, off)
+		}
+		if off != 0 {
+			back := fmt.Sprintf("%+.6f m from %s", off, name)
+			n2, o2 := splitLocation(back)
+			if n2 != name || math.Abs(o2-off) > 1e-6*math.Max(1, math.Abs(off)) {
+				t.Fatalf("round trip of %q: %q → %q, %v", s, back, n2, o2)
+			}
+		}
+	})
 }
