@@ -372,18 +372,19 @@ func (p *numberParser) parseLong(b []byte) (float64, numberStatus) {
 var pow10 = [...]float64{1e0, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10,
 	1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22}
 
-// fastDecimal converts the common case of a decimal number exactly and
+// fastDecimal converts a plain decimal number to the nearest float64 and
 // reports the decimal mark it used ('.', ',' or 0 for none). It returns
-// ok = false, leaving the number to strconv.ParseFloat, when the text is
-// not a plain decimal number (mark 0), or when it has more than 19
-// significant digits, its significand exceeds 2⁵³ or its power of ten
-// lies outside ±22 (mark fastTooLong).
+// ok = false when the text is not a plain decimal number (mark 0), or,
+// leaving the number to strconv.ParseFloat, when it has more than 19
+// significant digits or eiselLemire cannot decide it (mark fastTooLong).
 //
-// Within those limits the significand m and the power 10^|e| are both
-// exact float64 values, so the one IEEE multiplication or division
-// m·10^e or m/10^-e is correctly rounded: W. D. Clinger, "How to read
-// floating point numbers accurately", PLDI 1990, section 3 (the fast
-// path). TestFastDecimal and FuzzFastDecimal check it against strconv.
+// When the significand m is at most 2⁵³ and the power of ten e lies
+// within ±22, m and 10^|e| are both exact float64 values, so the one IEEE
+// multiplication or division m·10^e or m/10^-e is correctly rounded: W. D.
+// Clinger, "How to read floating point numbers accurately", PLDI 1990,
+// section 3 (the fast path). Other numbers go to eiselLemire.
+// TestFastDecimal, TestEiselLemire and FuzzFastDecimal check both against
+// strconv.
 func fastDecimal(b []byte) (v float64, mark byte, ok bool) {
 	i := 0
 	neg := false
@@ -454,16 +455,18 @@ func fastDecimal(b []byte) (v float64, mark byte, ok bool) {
 	switch {
 	case m == 0:
 		v = 0
-	case m > 1<<53:
-		return 0, fastTooLong, false
-	case exp == 0:
+	case m <= 1<<53 && exp == 0:
 		v = float64(m)
-	case exp > 0 && exp <= 22:
+	case m <= 1<<53 && exp > 0 && exp <= 22:
 		v = float64(m) * pow10[exp]
-	case exp < 0 && exp >= -22:
+	case m <= 1<<53 && exp < 0 && exp >= -22:
 		v = float64(m) / pow10[-exp]
 	default:
-		return 0, fastTooLong, false
+		var decided bool
+		if v, decided = eiselLemire(m, exp, neg); !decided {
+			return 0, fastTooLong, false
+		}
+		return v, mark, true
 	}
 	if neg {
 		v = -v
