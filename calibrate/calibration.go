@@ -192,7 +192,7 @@ func (c *Calibration) Mix(name string) *MixRecord {
 	return nil
 }
 
-// Located returns the location record of the named flaw, or nil.
+// LocatedFlaw returns the location record of the named flaw, or nil.
 func (c *Calibration) LocatedFlaw(id string) *LocatedFlaw {
 	for i := range c.Located {
 		if c.Located[i].FlawID == id {

@@ -21,6 +21,7 @@ type FileError struct {
 	Err    error
 }
 
+// Error formats the problem as file:line:column: field: problem.
 func (e *FileError) Error() string {
 	var b bytes.Buffer
 	b.WriteString(e.File)
@@ -34,6 +35,7 @@ func (e *FileError) Error() string {
 	return b.String()
 }
 
+// Unwrap returns the underlying problem.
 func (e *FileError) Unwrap() error { return e.Err }
 
 // lineCol returns the 1-based line and column of byte offset off in data.
