@@ -152,29 +152,9 @@ func (a *Analyzer) Analyze(ctx context.Context, scan *acquire.Scan) ([]Indicatio
 
 	// Calibrated channels and mixes.
 	for _, name := range a.needed {
-		cc := cal.Channel(name)
-		buf := a.bufs[name]
-		if cap(buf) < n {
-			buf = make([]complex128, n)
-		}
-		buf = buf[:n]
-		if mx := cal.Mix(name); mx != nil {
-			if _, err := mx.Apply(buf, a.raw); err != nil {
-				return nil, nil, fmt.Errorf("scan %q: %w", scan.Meta.Component, err)
-			}
-			if t := a.residue[name]; t != nil {
-				compensate(buf, lmRaw, t, rep.Landmarks)
-			}
-		} else {
-			src := a.raw[name]
-			if src == nil {
-				return nil, nil, fmt.Errorf("scan %q has no channel %s", scan.Meta.Component, name)
-			}
-			copy(buf, src)
-		}
-		f := cc.Factor()
-		for i := range buf {
-			buf[i] *= f
+		buf, err := a.calibrated(a.bufs[name], name, lmRaw, rep.Landmarks)
+		if err != nil {
+			return nil, nil, fmt.Errorf("scan %q: %w", scan.Meta.Component, err)
 		}
 		a.bufs[name] = buf
 	}
@@ -271,6 +251,72 @@ func (a *Analyzer) Analyze(ctx context.Context, scan *acquire.Scan) ([]Indicatio
 		}
 	}
 	return out, rep, nil
+}
+
+// calibrated returns in dst (reused when it has room) the calibrated
+// samples of a set-up channel or mix of the raw channels in a.raw: the mix
+// output with its support residue compensated, then Gain·e^{j·rotation}.
+func (a *Analyzer) calibrated(dst []complex128, name string, lmRaw []complex128, lms []Landmark) ([]complex128, error) {
+	cc := a.cal.Channel(name)
+	if cc == nil {
+		return nil, fmt.Errorf("calibration %s has no set-up for %s", a.cal.ID, name)
+	}
+	n := len(lmRaw)
+	if cap(dst) < n {
+		dst = make([]complex128, n)
+	}
+	dst = dst[:n]
+	if mx := a.cal.Mix(name); mx != nil {
+		if _, err := mx.Apply(dst, a.raw); err != nil {
+			return nil, err
+		}
+		if t := a.residue[name]; t != nil {
+			compensate(dst, lmRaw, t, lms)
+		}
+	} else {
+		src := a.raw[name]
+		if src == nil {
+			return nil, fmt.Errorf("no channel %s", name)
+		}
+		copy(dst, src)
+	}
+	f := cc.Factor()
+	for i := range dst {
+		dst[i] *= f
+	}
+	return dst, nil
+}
+
+// Calibrated returns every set-up channel and mix of the calibration as
+// calibrated samples (new slices, by name), with the landmarks found, for
+// display (impedance plane, strip charts) and for measurements an analyst
+// takes by hand with package measure.
+func (a *Analyzer) Calibrated(scan *acquire.Scan) (map[string][]complex128, []Landmark, error) {
+	if err := scan.Validate(); err != nil {
+		return nil, nil, err
+	}
+	if err := calibrate.CheckScanChannels(a.proc, scan); err != nil {
+		return nil, nil, err
+	}
+	posM, err := calibrate.ScanPositions(scan)
+	if err != nil {
+		return nil, nil, err
+	}
+	clear(a.raw)
+	for _, c := range scan.Channels {
+		a.raw[c.Name] = c.Samples
+	}
+	lmRaw := a.raw[a.proc.Landmarks.Channel]
+	lms := a.landmarks(lmRaw, posM)
+	out := make(map[string][]complex128, len(a.cal.Channels))
+	for _, c := range a.cal.Channels {
+		z, err := a.calibrated(nil, c.Channel, lmRaw, lms)
+		if err != nil {
+			return nil, nil, fmt.Errorf("scan %q: %w", scan.Meta.Component, err)
+		}
+		out[c.Channel] = z
+	}
+	return out, lms, nil
 }
 
 func lobeRad(p *calibrate.Procedure) float64 {

@@ -12,6 +12,7 @@ import (
 
 	"whorl/acquire"
 	"whorl/analysis"
+	"whorl/analysis/measure"
 	"whorl/calibrate"
 	"whorl/calibrate/calibtest"
 )
@@ -187,5 +188,33 @@ func TestScoreCounts(t *testing.T) {
 	}
 	if acc.Pass || acc.DetectOK || !acc.SizingOK || acc.FalseOK || acc.SupportOK {
 		t.Errorf("targets %+v", acc)
+	}
+}
+
+// TestCalibratedChannels: the calibrated channels an analyst views show a
+// standard-like hole at the phase and amplitude the analysis measured.
+func TestCalibratedChannels(t *testing.T) {
+	t.Parallel()
+	cal, proc, tube := fixture(t)
+	a, err := analysis.NewAnalyzer(cal, proc)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ind, _, err := a.Analyze(context.Background(), tube)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ch, lms, err := a.Calibrated(tube)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(ch) != len(cal.Channels) || len(lms) != 2 {
+		t.Fatalf("%d channels, %d landmarks", len(ch), len(lms))
+	}
+	for _, x := range ind {
+		z := ch[x.Channel][x.Window[0]:x.Window[1]]
+		if got := measure.Vpp(z).Vpp; got != x.Vpp {
+			t.Errorf("%s at %.3f m: Vpp of the displayed samples %g, indication %g", x.Channel, x.PositionM, got, x.Vpp)
+		}
 	}
 }
