@@ -152,8 +152,9 @@ func (d *ModelDesk) showValues(p viewmodel.ModelParams) {
 }
 
 func (d *ModelDesk) refresh() {
-	fam, prof, adv, err, busy := d.ex.Results()
-	if busy {
+	res := d.ex.Results()
+	fam, prof, adv, err := res.Families, res.Profile, res.Advice, res.Err
+	if res.Busy {
 		d.busy.SetText("evaluating the model…")
 	} else {
 		d.busy.SetText("")

@@ -166,10 +166,8 @@ func abs32(v float32) float32 {
 type stripRenderer struct {
 	s      *StripChart
 	raster *canvas.Raster
-	texts  []fyne.CanvasObject
-	pool   []*canvas.Text
-	used   int
-	size   fyne.Size
+	labels
+	size fyne.Size
 	// scaleKey identifies the vertical scales the labels were placed for.
 	scaleKey string
 }
@@ -189,7 +187,7 @@ func (r *stripRenderer) Layout(size fyne.Size) {
 	r.size = size
 	r.raster.Resize(size)
 	r.raster.Move(fyne.NewPos(0, 0))
-	r.labels()
+	r.place()
 }
 
 func (r *stripRenderer) MinSize() fyne.Size { return r.s.MinSize() }
@@ -199,32 +197,8 @@ func (r *stripRenderer) Objects() []fyne.CanvasObject {
 }
 
 func (r *stripRenderer) Refresh() {
-	r.labels()
+	r.place()
 	r.raster.Refresh()
-}
-
-// text places a label; align −1 left, 0 centre, +1 right of x.
-func (r *stripRenderer) text(s string, x, y float32, align int, col color.Color, size float32, bold bool) {
-	var t *canvas.Text
-	if r.used < len(r.pool) {
-		t = r.pool[r.used]
-	} else {
-		t = canvas.NewText("", col)
-		r.pool = append(r.pool, t)
-	}
-	r.used++
-	t.Text, t.Color, t.TextSize = s, col, size
-	t.TextStyle = fyne.TextStyle{Bold: bold}
-	ms := t.MinSize()
-	switch align {
-	case 0:
-		x -= ms.Width / 2
-	case 1:
-		x -= ms.Width
-	}
-	t.Move(fyne.NewPos(x, y))
-	t.Resize(ms)
-	r.texts = append(r.texts, t)
 }
 
 // panels returns the plot rectangles in units.
@@ -260,8 +234,8 @@ func stripChannels(src StripSource) ([]*acquire.Channel, []int) {
 	return chs, idx
 }
 
-func (r *stripRenderer) labels() {
-	r.texts, r.used = r.texts[:0], 0
+func (r *stripRenderer) place() {
+	r.reset()
 	s := r.s
 	c := s.src.Chart()
 	chs, idx := stripChannels(s.src)
@@ -363,7 +337,7 @@ func (r *stripRenderer) draw(w, h int) image.Image {
 	// they changed.
 	if key := scaleKey(&s.scene); key != r.scaleKey {
 		r.scaleKey = key
-		fyne.Do(func() { r.labels(); canvas.Refresh(s) })
+		fyne.Do(func() { r.place(); canvas.Refresh(s) })
 	}
 	return cv.Img
 }

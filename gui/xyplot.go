@@ -93,10 +93,8 @@ func (p *XYPlot) ranges(w, h float32) (xlo, xhi, ylo, yhi float64) {
 type xyRenderer struct {
 	p      *XYPlot
 	raster *canvas.Raster
-	texts  []fyne.CanvasObject
-	pool   []*canvas.Text
-	used   int
-	size   fyne.Size
+	labels
+	size fyne.Size
 }
 
 func (r *xyRenderer) Destroy()           {}
@@ -108,45 +106,22 @@ func (r *xyRenderer) Objects() []fyne.CanvasObject {
 func (r *xyRenderer) Layout(size fyne.Size) {
 	r.size = size
 	r.raster.Resize(size)
-	r.labels()
+	r.place()
 }
 
 func (r *xyRenderer) Refresh() {
-	r.labels()
+	r.place()
 	r.raster.Refresh()
 	canvas.Refresh(r.p)
-}
-
-func (r *xyRenderer) text(s string, x, y float32, align int, col color.Color, size float32, bold bool) float32 {
-	var t *canvas.Text
-	if r.used < len(r.pool) {
-		t = r.pool[r.used]
-	} else {
-		t = canvas.NewText("", col)
-		r.pool = append(r.pool, t)
-	}
-	r.used++
-	t.Text, t.Color, t.TextSize, t.TextStyle = s, col, size, fyne.TextStyle{Bold: bold}
-	ms := t.MinSize()
-	switch align {
-	case 0:
-		x -= ms.Width / 2
-	case 1:
-		x -= ms.Width
-	}
-	t.Move(fyne.NewPos(x, y))
-	t.Resize(ms)
-	r.texts = append(r.texts, t)
-	return ms.Width
 }
 
 func (r *xyRenderer) plotArea() (x0, y0, w, h float32) {
 	return xyLeft, xyTop, r.size.Width - xyLeft - xyRight, r.size.Height - xyTop - xyBottom
 }
 
-func (r *xyRenderer) labels() {
+func (r *xyRenderer) place() {
 	p := r.p
-	r.texts, r.used = r.texts[:0], 0
+	r.reset()
 	capSz := theme.CaptionTextSize()
 	fg, dim := p.th.fg(), p.th.dim()
 	style := p.th.PlotStyle()

@@ -209,11 +209,7 @@ func (in *Inspection) Tube(ctx context.Context, id string) (*viewmodel.Tube, err
 	if !ok {
 		return nil, fmt.Errorf("component %s has no scan in the record", id)
 	}
-	path := sc.Path
-	if !filepath.IsAbs(path) {
-		path = filepath.Join(filepath.Dir(in.st.Path()), path)
-	}
-	raw, err := acquire.ReadScanFile(path)
+	raw, err := acquire.ReadScanFile(in.resolve(sc.Path))
 	if err != nil {
 		return nil, err
 	}
@@ -243,6 +239,15 @@ func (in *Inspection) Tube(ctx context.Context, id string) (*viewmodel.Tube, err
 	in.tubes[id] = td
 	in.mu.Unlock()
 	return t, nil
+}
+
+// resolve returns a scan path of the record: relative paths are relative
+// to the record's folder.
+func (in *Inspection) resolve(path string) string {
+	if filepath.IsAbs(path) {
+		return path
+	}
+	return filepath.Join(filepath.Dir(in.st.Path()), path)
 }
 
 // calibrated returns a copy of raw with every channel the calibration sets
@@ -576,10 +581,7 @@ func (in *Inspection) Calibration(ctx context.Context, id string) (*viewmodel.Ca
 	case in.calScans != nil:
 		path = in.calScans(rec.ID)
 	case ok:
-		path = sc.Path
-		if !filepath.IsAbs(path) {
-			path = filepath.Join(filepath.Dir(in.st.Path()), path)
-		}
+		path = in.resolve(sc.Path)
 	}
 	if path != "" {
 		if raw, err := acquire.ReadScanFile(path); err == nil {

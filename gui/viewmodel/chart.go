@@ -78,28 +78,31 @@ func (c *Chart) ViewSamples() Window {
 // SetWindow places the analysis window on [from, to], keeping it at least
 // a few samples wide and inside the scan, and pans the view to show it.
 func (c *Chart) SetWindow(from, to float64) {
+	c.WinFrom, c.WinTo = c.fit(from, to, minWindowSamples*c.step)
+	c.showWindow()
+}
+
+// fit orders [from, to], widens it about its centre to at least minW,
+// and shifts it (shrinking it to the scan only when it is longer) so that
+// it lies inside the scan.
+func (c *Chart) fit(from, to, minW float64) (float64, float64) {
 	if from > to {
 		from, to = to, from
 	}
-	minW := minWindowSamples * c.step
 	if to-from < minW {
 		mid := (from + to) / 2
 		from, to = mid-minW/2, mid+minW/2
 	}
-	full := c.FullTo - c.FullFrom
-	if to-from > full {
-		from, to = c.FullFrom, c.FullTo
+	if to-from >= c.FullTo-c.FullFrom {
+		return c.FullFrom, c.FullTo
 	}
 	if from < c.FullFrom {
-		to += c.FullFrom - from
-		from = c.FullFrom
+		from, to = c.FullFrom, to+c.FullFrom-from
 	}
 	if to > c.FullTo {
-		from -= to - c.FullTo
-		to = c.FullTo
+		from, to = from-(to-c.FullTo), c.FullTo
 	}
-	c.WinFrom, c.WinTo = from, to
-	c.showWindow()
+	return from, to
 }
 
 // SetWindowSamples places the window on the samples of w.
@@ -129,25 +132,7 @@ func (c *Chart) showWindow() {
 // setView sets the range shown, clamped to the scan and at least a few
 // samples wide.
 func (c *Chart) setView(from, to float64) {
-	minW := 4 * minWindowSamples * c.step
-	if to-from < minW {
-		mid := (from + to) / 2
-		from, to = mid-minW/2, mid+minW/2
-	}
-	full := c.FullTo - c.FullFrom
-	if to-from >= full {
-		c.ViewFrom, c.ViewTo = c.FullFrom, c.FullTo
-		return
-	}
-	if from < c.FullFrom {
-		to += c.FullFrom - from
-		from = c.FullFrom
-	}
-	if to > c.FullTo {
-		from -= to - c.FullTo
-		to = c.FullTo
-	}
-	c.ViewFrom, c.ViewTo = from, to
+	c.ViewFrom, c.ViewTo = c.fit(from, to, 4*minWindowSamples*c.step)
 }
 
 // MoveWindow shifts the window by d axis units.

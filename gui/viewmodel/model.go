@@ -139,10 +139,21 @@ func (e *Explorer) Evaluate() {
 	})
 }
 
-// Results returns the latest completed evaluation, its error, and whether
-// an evaluation is still running.
-func (e *Explorer) Results() (Families, DepthProfile, Advice, error, bool) {
-	return e.fam, e.prof, e.adv, e.err, e.busy
+// Results is the latest completed evaluation of the explorer.
+type Results struct {
+	Families Families
+	Profile  DepthProfile
+	Advice   Advice
+	// Err is the error of the latest evaluation (the results above are
+	// then those of the one before).
+	Err error
+	// Busy reports that an evaluation is still running.
+	Busy bool
+}
+
+// Results returns the latest completed evaluation.
+func (e *Explorer) Results() Results {
+	return Results{Families: e.fam, Profile: e.prof, Advice: e.adv, Err: e.err, Busy: e.busy}
 }
 
 // Close cancels a running evaluation and waits for it.

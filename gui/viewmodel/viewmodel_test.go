@@ -365,12 +365,12 @@ func TestExplorerCancelsSupersededEvaluations(t *testing.T) {
 	}
 	close(m.release)
 	ex.Wait()
-	fam, _, _, err, busy := ex.Results()
-	if err != nil || busy {
-		t.Fatalf("err %v, busy %v", err, busy)
+	res := ex.Results()
+	if res.Err != nil || res.Busy {
+		t.Fatalf("err %v, busy %v", res.Err, res.Busy)
 	}
-	if fam.Operating != complex(0, 5) {
-		t.Errorf("result from f=%v, want the last (5)", imag(fam.Operating))
+	if fam := res.Families; fam.Operating != complex(0, 5) {
+		t.Errorf("result from f=%v, want the last (5)", imag(res.Families.Operating))
 	}
 }
 
