@@ -9,7 +9,7 @@ form (πx/2)[J1H0 − J0H1], A&S 11.1.7); the reflection coefficient is the orig
 two-conductor form generalised by the transfer-matrix product (growing
 exponentials, affordable at 30 digits), not the Go code's decaying
 recursion; the α-integral uses 24-point Gauss–Legendre panels of width
-π/r2, out to min(70/z1, 800/r2), plus, at zero lift-off, the tail of
+π/r2 (graded geometrically down to π/(2^16 r2) near α = 0), out to min(70/z1, 800/r2), plus, at zero lift-off, the tail of
 the mean of χ², ∫_A^∞ α(r1+r2)/π ·(...) dα, by mpmath.quad.
 
 Run:  /usr/bin/python3 testdata/impedance/gen_planar.py > testdata/impedance/planar_ref.txt
@@ -128,15 +128,19 @@ GX, GW = gl_nodes(24)
 def coil_nodes(r1, r2, amax):
     h = mp.pi / r2
     nodes = []
-    a = mp.mpf(0)
-    while a < amax:
-        b = a + h
+    # Geometric grading towards α = 0 resolves the narrow low-α feature of
+    # thin plates at low frequency (φ turns from −1 at α ≈ ωμ0σc/2).
+    edges = [mp.mpf(0)] + [h / 2 ** k for k in range(16, 0, -1)]
+    a = h
+    while a < amax + h:
+        edges.append(a)
+        a += h
+    for a, b in zip(edges[:-1], edges[1:]):
         for x, w in zip(GX, GW):
             al = (a + b) / 2 + (b - a) / 2 * x
             chi = F(al * r2) - F(al * r1)
             nodes.append((al, (b - a) / 2 * w, chi * chi))
-        a = b
-    return nodes, a
+    return nodes, edges[-1]
 
 
 def main():
