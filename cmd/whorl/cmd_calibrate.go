@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"image/color"
 	"io"
+	"os"
 	"path/filepath"
 	"strings"
 	"text/tabwriter"
@@ -46,7 +47,8 @@ phase and amplitude within the procedure's tolerances, elapsed time within
 its limit). A failed check prints the re-test list (the scans of the group
 found in --scans DIR, by their calibration group) and exits with code 4
 after writing the calibration; the group's results must be kept out of the
-final report.
+final report. --group-out writes the group record (status, per-reference
+check, re-test list) as JSON for the record store.
 
 The builder is $WHORL_USER (or --builder). 'whorl calibrate approve' records a
 Level III approval as a new version.
@@ -61,6 +63,7 @@ Examples:
 			fs.String("procedure", "", "procedure file (JSON, docs/procedure.md); required")
 			fs.String("closing", "", "closing standard scan of the same calibration group, checked against OPEN.csv")
 			fs.String("scans", "", "folder of the group's scans, listed for re-test when the closing check fails")
+			fs.String("group-out", "", "with --closing: write the calibration-group record (status, check, re-test list) to this JSON file")
 			fs.String("o", "", "write the calibration to this JSON file; required")
 			fs.String("plot", "", "draw the phase-depth curves with their points to this PNG/SVG/PDF file")
 			fs.String("id", "", "calibration ID (default: from the standard serial and the time)")
@@ -146,6 +149,22 @@ func runCalibrate(ctx context.Context, e *env, fs *flag.FlagSet, args []string) 
 	}
 	if err := calibrate.SaveCalibration(out, cal); err != nil {
 		return err
+	}
+	if gp := flagString(fs, "group-out"); gp != "" {
+		if check == nil {
+			return usagef("--group-out needs --closing")
+		}
+		f, err := os.Create(gp)
+		if err != nil {
+			return err
+		}
+		if err := writeJSON(f, check); err != nil {
+			f.Close()
+			return fmt.Errorf("write %s: %w", gp, err)
+		}
+		if err := f.Close(); err != nil {
+			return err
+		}
 	}
 	if p := flagString(fs, "plot"); p != "" {
 		if err := plotCurves(p, cal); err != nil {

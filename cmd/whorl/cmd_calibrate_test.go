@@ -46,7 +46,7 @@ func TestCalibrateAndAnalyzeCommands(t *testing.T) {
 
 	// The drifted group: the check fails (exit 4), its tubes are listed.
 	code, stdout, stderr = runCmd(t, "calibrate", "--standard", p("standard.json"), "--procedure", demoProc, "--builder", "A. Analyst",
-		"--closing", p("calibration", "CG02-close.csv"), "--scans", p("scans"), "-o", cal2, p("calibration", "CG02-open.csv"))
+		"--closing", p("calibration", "CG02-close.csv"), "--scans", p("scans"), "--group-out", filepath.Join(out, "cg02.json"), "-o", cal2, p("calibration", "CG02-open.csv"))
 	if code != exitCheck {
 		t.Fatalf("calibrate CG02 (drifted): exit %d, want %d\n%s%s", code, exitCheck, stdout, stderr)
 	}
@@ -55,6 +55,13 @@ func TestCalibrateAndAnalyzeCommands(t *testing.T) {
 	}
 	if _, err := os.Stat(cal2); err != nil {
 		t.Errorf("calibration not written although the check failed: %v", err)
+	}
+	var grp struct {
+		Status string   `json:"status"`
+		Retest []string `json:"retest"`
+	}
+	if b, err := os.ReadFile(filepath.Join(out, "cg02.json")); err != nil || json.Unmarshal(b, &grp) != nil || grp.Status != "invalid" || len(grp.Retest) != 4 {
+		t.Errorf("group record: %v %+v", err, grp)
 	}
 
 	// Analyse all scans with both calibrations (chosen by group); score.
