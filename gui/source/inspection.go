@@ -219,18 +219,18 @@ func (in *Inspection) Tube(ctx context.Context, id string) (*viewmodel.Tube, err
 	td := &tubeData{cal: cal, noiseV: map[string]float64{}}
 	t := &viewmodel.Tube{ID: id, Scan: raw}
 	if cal != nil {
-		t.Scan, t.MeasureChannels, err = calibrated(raw, cal, in.proc)
+		t.Scan, t.MeasureChannels, td.lms, err = calibrated(raw, cal, in.proc)
 		if err != nil {
 			return nil, err
 		}
 		t.VoltsCalibrated = true
+		for _, l := range td.lms {
+			t.Landmarks = append(t.Landmarks, viewmodel.Landmark{Name: l.Name, PositionM: l.CentreM})
+		}
+		// The noise windows of the automatic analysis give the S/N.
 		if _, rep, err := analysis.Analyze(ctx, raw, cal, in.proc); err == nil {
-			td.lms = rep.Landmarks
 			for _, nw := range rep.Noise {
 				td.noiseV[nw.Channel] = nw.Vpp
-			}
-			for _, l := range rep.Landmarks {
-				t.Landmarks = append(t.Landmarks, viewmodel.Landmark{Name: l.Name, PositionM: l.CentreM})
 			}
 		}
 	}
@@ -250,61 +250,54 @@ func (in *Inspection) resolve(path string) string {
 	return filepath.Join(filepath.Dir(in.st.Path()), path)
 }
 
-// calibrated returns a copy of raw with every channel the calibration sets
-// up in calibrated volts and every mix added as a channel, and the names of
-// the set-up channels (detection channels first).
-func calibrated(raw *acquire.Scan, cal *calibrate.Calibration, proc *calibrate.Procedure) (*acquire.Scan, []string, error) {
+// calibrated returns a copy of raw with every channel and mix the
+// calibration sets up in calibrated volts (analysis.Analyzer.Calibrated:
+// the same samples the automatic analysis measures), the names of the
+// set-up channels (detection channels first) and the landmarks found.
+func calibrated(raw *acquire.Scan, cal *calibrate.Calibration, proc *calibrate.Procedure) (*acquire.Scan, []string, []analysis.Landmark, error) {
+	a, err := analysis.NewAnalyzer(cal, proc)
+	if err != nil {
+		return nil, nil, nil, err
+	}
+	chans, lms, err := a.Calibrated(raw)
+	if err != nil {
+		return nil, nil, nil, err
+	}
 	out := *raw
 	out.Channels = nil
-	rawMap := map[string][]complex128{}
-	for _, c := range raw.Channels {
-		rawMap[c.Name] = c.Samples
-	}
 	var names []string
 	for _, d := range proc.Detection {
-		if !slices.Contains(names, d.Channel) {
+		if !slices.Contains(names, d.Channel) && chans[d.Channel] != nil {
 			names = append(names, d.Channel)
 		}
 	}
 	for _, c := range raw.Channels {
-		cc := cal.Channel(c.Name)
-		if cc == nil {
-			out.Channels = append(out.Channels, c) // raw volts (not set up)
-			continue
+		if z, ok := chans[c.Name]; ok {
+			c.Samples = z
+			if !slices.Contains(names, c.Name) {
+				names = append(names, c.Name)
+			}
 		}
-		f := cc.Factor()
-		s := make([]complex128, len(c.Samples))
-		for i, v := range c.Samples {
-			s[i] = v * f
-		}
-		out.Channels = append(out.Channels, acquire.Channel{Name: c.Name, FreqHz: c.FreqHz, Mode: c.Mode, Samples: s})
-		if !slices.Contains(names, c.Name) {
-			names = append(names, c.Name)
-		}
+		out.Channels = append(out.Channels, c) // not set up: raw volts
 	}
-	for _, mx := range cal.Mixes {
-		cc := cal.Channel(mx.Name)
-		if cc == nil {
+	for _, cc := range cal.Channels {
+		if raw.Channel(cc.Channel) != nil {
 			continue
 		}
-		s, err := mx.Apply(nil, rawMap)
-		if err != nil {
-			return nil, nil, fmt.Errorf("scan %q: %w", raw.Meta.Component, err)
-		}
-		f := cc.Factor()
-		for i := range s {
-			s[i] *= f
+		mx := cal.Mix(cc.Channel)
+		if mx == nil || chans[cc.Channel] == nil {
+			continue
 		}
 		freq := 0.0
 		if p := raw.Channel(mx.Primary); p != nil {
 			freq = p.FreqHz
 		}
-		out.Channels = append(out.Channels, acquire.Channel{Name: mx.Name, FreqHz: freq, Mode: acquire.Differential, Samples: s})
-		if !slices.Contains(names, mx.Name) {
-			names = append(names, mx.Name)
+		out.Channels = append(out.Channels, acquire.Channel{Name: cc.Channel, FreqHz: freq, Mode: acquire.Differential, Samples: chans[cc.Channel]})
+		if !slices.Contains(names, cc.Channel) {
+			names = append(names, cc.Channel)
 		}
 	}
-	return &out, names, nil
+	return &out, names, lms, nil
 }
 
 // Measure implements viewmodel.Source: the peak-to-peak chord and
@@ -585,7 +578,7 @@ func (in *Inspection) Calibration(ctx context.Context, id string) (*viewmodel.Ca
 	}
 	if path != "" {
 		if raw, err := acquire.ReadScanFile(path); err == nil {
-			if s, _, err := calibrated(raw, cal, in.proc); err == nil {
+			if s, _, _, err := calibrated(raw, cal, in.proc); err == nil {
 				d.Scan = s
 			}
 		}
