@@ -255,6 +255,26 @@ func Demodulate(rec *acquire.RawRecord, opt DemodOptions) (*acquire.Scan, *Demod
 	return demodSimultaneous(rec, opt)
 }
 
+// splitDecimation splits a total decimation d into the first (B-spline)
+// stage d1 and the second (after the Butterworth) d2, keeping the
+// intermediate rate at 8 to 16 times the output rate so that the
+// first stage's droop and aliasing stay small at any cut-off below half the
+// output rate: below 16 there is no first stage (d1 = 1); otherwise d2 is
+// the smallest divisor of d from 8 to 16, and when d has none, d is
+// rounded to the nearest multiple of 8 (the rate actually used is
+// reported).
+func splitDecimation(d int) (d1, d2 int) {
+	if d < 16 {
+		return 1, d
+	}
+	for c := 8; c <= 16; c++ {
+		if d%c == 0 {
+			return d / c, c
+		}
+	}
+	return int(math.Round(float64(d) / 8)), 8
+}
+
 func newScanFrom(rec *acquire.RawRecord) *acquire.Scan {
 	meta := rec.Meta
 	meta.Extra = maps.Clone(rec.Meta.Extra)
@@ -273,7 +293,8 @@ func demodSimultaneous(rec *acquire.RawRecord, opt DemodOptions) (*acquire.Scan,
 	if !(out > 0) || out > fs || math.IsInf(out, 0) {
 		return nil, nil, fmt.Errorf("%w: output rate %v Hz: expected 0 < rate ≤ %v Hz (the ADC rate)", ErrFilterSpec, out, fs)
 	}
-	d := max(1, int(math.Round(fs/out)))
+	d1, d2 := splitDecimation(max(1, int(math.Round(fs/out))))
+	d := d1 * d2
 	out = fs / float64(d)
 	lp := opt.LowpassHz
 	if lp == 0 {
@@ -282,14 +303,6 @@ func demodSimultaneous(rec *acquire.RawRecord, opt DemodOptions) (*acquire.Scan,
 	if !(lp > 0 && lp < out/2) {
 		return nil, nil, fmt.Errorf("%w: demodulation low-pass %v Hz: expected 0 < f < %v Hz (half the output rate)", ErrFilterSpec, lp, out/2)
 	}
-	d2 := 1
-	for c := 8; c >= 1; c-- {
-		if d%c == 0 {
-			d2 = c
-			break
-		}
-	}
-	d1 := d / d2
 	fs1 := fs / float64(d1)
 	sos, err := ButterworthLowpass(opt.Order, lp, fs1)
 	if err != nil {

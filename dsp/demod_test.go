@@ -195,7 +195,7 @@ func TestDemodulateErrors(t *testing.T) {
 		{"no samples", func(r *acquire.RawRecord) { r.VoltageV = nil }, DemodOptions{}, "no voltage samples"},
 		{"reference length", func(r *acquire.RawRecord) { r.ReferenceV = make([]float64, 3) }, DemodOptions{}, "3 reference samples"},
 		{"lowpass too high", func(*acquire.RawRecord) {}, DemodOptions{OutputRateHz: 1000, LowpassHz: 600}, "low-pass 600 Hz"},
-		{"too short", func(r *acquire.RawRecord) { r.VoltageV = r.VoltageV[:100] }, DemodOptions{}, "too short"},
+		{"too short", func(r *acquire.RawRecord) { r.VoltageV = r.VoltageV[:60] }, DemodOptions{}, "too short"},
 		{"silent reference", func(r *acquire.RawRecord) { r.ReferenceV = make([]float64, 50000) }, DemodOptions{}, "no component"},
 		{"settle beyond slot", func(r *acquire.RawRecord) { r.SlotS = 1e-3 }, DemodOptions{SettleS: 2e-3}, "settling time"},
 	} {
@@ -229,5 +229,17 @@ func TestFlawBandWarning(t *testing.T) {
 	}
 	if w := FlawBandWarning(300, 0.5, 2e-3); w != "" {
 		t.Errorf("cut-off 300 Hz: warning %q, want none", w)
+	}
+}
+
+func TestSplitDecimation(t *testing.T) {
+	t.Parallel()
+	for _, c := range []struct{ d, d1, d2 int }{
+		{1, 1, 1}, {15, 1, 15}, {500, 50, 10}, {100, 10, 10}, {16, 2, 8}, {97, 12, 8}, {1000, 125, 8}, {330, 33, 10}, {143, 13, 11},
+	} {
+		d1, d2 := splitDecimation(c.d)
+		if d1 != c.d1 || d2 != c.d2 {
+			t.Errorf("splitDecimation(%d) = %d, %d; want %d, %d", c.d, d1, d2, c.d1, c.d2)
+		}
 	}
 }
