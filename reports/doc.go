@@ -19,6 +19,13 @@
 // control and bidirectional-format characters are replaced) before it
 // reaches the page, in an embedded Unicode font (Liberation Sans).
 //
+// Figures are gonum/plot plots drawn straight into the PDF as vector
+// graphics by a vg.Canvas over fpdf (vgfpdf.go): vg's canvas space (points,
+// origin at the figure's bottom-left corner, y up) is mapped onto the
+// figure's rectangle on the page (millimetres, y down), and figure text is
+// set in Liberation Sans so that gonum/plot's text measurement matches the
+// glyphs on the page.
+//
 // Every page of the PDF carries the report ID and "page N of M"; the last
 // line is "End of report <id>". The report carries the caution that
 // results are to be reviewed by qualified, certified personnel under a

@@ -27,6 +27,10 @@ func TestPDFContent(t *testing.T) {
 	if dir := os.Getenv("WHORL_REPORT_OUT"); dir != "" {
 		os.WriteFile(filepath.Join(dir, "report.pdf"), pdf, 0o644)
 	}
+	// Figures are vector graphics: the report holds no image.
+	if bytes.Contains(pdf, []byte("/Subtype /Image")) {
+		t.Errorf("report holds an image object; want its figures as vector graphics")
+	}
 	pages := pdfToText(t, pdf)
 	if len(pages) < 2 {
 		t.Fatalf("%d pages; want at least 2", len(pages))
