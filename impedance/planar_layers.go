@@ -39,12 +39,15 @@ func (b *stackBuf) prepare(layers []Layer, omega float64) stack {
 	return stack{ls: ls}
 }
 
-// layerAlpha returns α_i = √(α² + jk²) with Re α_i > 0.
+// layerAlpha returns α_i = √(α² + jk²) with Re α_i > 0, from
+// √(x + jy) = u + j y/(2u), u = √((|z| + x)/2), which has no cancellation
+// for x = α² ≥ 0, y = k² ≥ 0 (the principal branch).
 func layerAlpha(a2, k2 float64) complex128 {
 	if k2 == 0 {
 		return complex(math.Sqrt(a2), 0)
 	}
-	return cmplx.Sqrt(complex(a2, k2))
+	u := math.Sqrt((math.Hypot(a2, k2) + a2) / 2)
+	return complex(u, k2/(2*u))
 }
 
 // interfaceR returns the reflection coefficient r_ij = (β_i − β_j)/(β_i +
