@@ -243,3 +243,27 @@ func TestSplitDecimation(t *testing.T) {
 		}
 	}
 }
+
+// TestDemodulateWorkers: demodulating tones concurrently gives the same
+// samples as one at a time (each worker has its own buffers).
+func TestDemodulateWorkers(t *testing.T) {
+	t.Parallel()
+	tones := []dsptest.Tone{{FreqHz: 300e3, AmplitudeV: 1}, {FreqHz: 120e3, AmplitudeV: 0.5, PhaseRad: 1}, {FreqHz: 40e3, AmplitudeV: 2, PhaseRad: -2}}
+	v := dsptest.MultiTone(60000, 1e6, tones)
+	rec := &acquire.RawRecord{Coil: "abs", SampleRateHz: 1e6, ExcitationHz: []float64{300e3, 120e3, 40e3}, VoltageV: v, ReferenceV: v}
+	one, _, err := Demodulate(rec, DemodOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	two, _, err := Demodulate(rec, DemodOptions{Workers: 2})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k := range one.Channels {
+		for i, z := range one.Channels[k].Samples {
+			if two.Channels[k].Samples[i] != z {
+				t.Fatalf("channel %s sample %d: %v with 2 workers, %v with 1", one.Channels[k].Name, i, two.Channels[k].Samples[i], z)
+			}
+		}
+	}
+}
