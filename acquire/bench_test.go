@@ -123,3 +123,25 @@ func BenchmarkWriteScan(b *testing.B) {
 		}
 	}
 }
+
+var (
+	benchOnceSmall sync.Once
+	benchTextSmall []byte
+)
+
+// BenchmarkReadScanSmall6Digits reads a 10 MB six-digit file from memory,
+// a quicker probe of the per-field cost than the 100 MB benchmarks.
+func BenchmarkReadScanSmall6Digits(b *testing.B) {
+	benchOnceSmall.Do(func() { benchTextSmall = benchScanText(10<<20, 6) })
+	b.SetBytes(int64(len(benchTextSmall)))
+	b.ReportAllocs()
+	cpu0 := processCPUSeconds()
+	for b.Loop() {
+		if _, err := ReadScan(bytes.NewReader(benchTextSmall), "small.csv"); err != nil {
+			b.Fatal(err)
+		}
+	}
+	if cpu := processCPUSeconds() - cpu0; cpu > 0 {
+		b.ReportMetric(float64(b.N)*float64(len(benchTextSmall))/1e6/cpu, "MB/cpu-s")
+	}
+}

@@ -142,6 +142,7 @@ func (t *table) readRows() error {
 		t.chans = make([][]complex128, t.nch)
 	}
 	var lines []int32 // line of each row, kept only for OrderSort
+	fill := t.fill != FillReject
 	start := t.lr.consumed
 	var (
 		lastT, lastP         float64
@@ -203,17 +204,21 @@ func (t *table) readRows() error {
 			v, st := t.num.parse(fields[i])
 			switch st {
 			case numOK:
-				if c.div != 0 {
-					vals[i] = v / c.div
-				} else {
-					vals[i] = v * c.factor
-				}
 				raws[i] = v
-				if math.IsInf(vals[i], 0) {
-					return t.errAt(ln, i+1, ErrNonFinite, c.expected, fmt.Sprintf("%q overflows after unit conversion", fields[i]))
+				switch {
+				case c.div != 0:
+					v /= c.div
+				case c.factor != 1:
+					v *= c.factor
+					if math.IsInf(v, 0) {
+						return t.errAt(ln, i+1, ErrNonFinite, c.expected, fmt.Sprintf("%q overflows after unit conversion", fields[i]))
+					}
 				}
-				seen[i] = true
-				runLine[i] = 0
+				vals[i] = v
+				if fill {
+					seen[i] = true
+					runLine[i] = 0
+				}
 			case numEmpty:
 				switch {
 				case t.fill == FillReject:
