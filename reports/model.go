@@ -50,11 +50,17 @@ type Indication struct {
 	store.Indication
 	Calls  []store.Call `json:"calls"`
 	Window *Window      `json:"-"`
+	// Excluded, when not empty, says why the indication is kept out of the
+	// report's table and figures although its call is not rejected: its
+	// calibration group failed a check ("invalid calibration group"), or
+	// the procedure's reporting criteria leave it out (Options.Exclude).
+	// It stays in the record and in the CSV and JSON exports.
+	Excluded string `json:"excluded,omitempty"`
 }
 
 // Reportable reports whether the indication is in the report's table and
-// figures: every indication whose current call is not rejected.
-func (d *Indication) Reportable() bool { return d.Status != store.CallRejected }
+// figures: its current call is not rejected and it is not Excluded.
+func (d *Indication) Reportable() bool { return d.Status != store.CallRejected && d.Excluded == "" }
 
 // Window is the signal of one channel around an indication: X and Y in
 // volts (the impedance-plane components), sample FirstSample onwards. The
@@ -81,6 +87,12 @@ type Options struct {
 	// when it returns a nil window, the report says the signal was not
 	// supplied instead of drawing figures.
 	Window func(ctx context.Context, d store.Indication) (*Window, error)
+	// Exclude applies the procedure's reporting criteria: it returns why an
+	// indication is not reportable (for example "non-relevant: landmark" or
+	// "below the reporting threshold"), or "" to report it. Nil reports
+	// every indication that is not rejected. An analyst's or resolver's
+	// accepted call is always reported.
+	Exclude func(d store.Indication) string
 }
 
 // defaultCurve reads {"points":[{"phase_rad":…,"depth_pct":…},…]}.
@@ -158,12 +170,24 @@ func FromStore(ctx context.Context, s *store.Store, opt Options) (*Inspection, e
 	if err != nil {
 		return nil, err
 	}
+	invalid := map[string]bool{}
+	for _, c := range in.Components {
+		invalid[c.ID] = c.Status == store.StatusInvalidGroup
+	}
 	for _, d := range inds {
 		calls, err := s.Calls(ctx, d.ID)
 		if err != nil {
 			return nil, err
 		}
 		ri := Indication{Indication: d, Calls: calls}
+		switch {
+		case invalid[d.Component]:
+			ri.Excluded = "invalid calibration group: re-test"
+		case d.Status == store.CallAccepted && d.CallVersion > 1:
+			// A person accepted it: reported whatever the criteria say.
+		case opt.Exclude != nil:
+			ri.Excluded = opt.Exclude(d)
+		}
 		if opt.Window != nil && ri.Reportable() {
 			if ri.Window, err = opt.Window(ctx, d); err != nil {
 				return nil, fmt.Errorf("indication %s: signal window: %w", d.ID, err)

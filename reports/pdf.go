@@ -515,17 +515,33 @@ func (p *pdfw) indicationSection() {
 	p.heading("5  Indications")
 	var rows [][]string
 	rejected := 0
+	excluded := map[string]int{}
 	for i := range in.Indications {
 		d := &in.Indications[i]
-		if !d.Reportable() {
+		if d.Status == store.CallRejected {
 			rejected++
+			continue
+		}
+		if !d.Reportable() {
+			excluded[d.Excluded]++
 			continue
 		}
 		rows = append(rows, []string{d.ID, d.Component, d.Location, d.Channel, strconv.FormatFloat(d.VppV, 'f', 2, 64),
 			strconv.FormatFloat(degrees(d.PhaseRad), 'f', 0, 64), depthText(d), d.Class, d.Method, curveText(d), callLabel(d)})
 	}
-	p.para(fmt.Sprintf("%d indications recorded; %d reportable (listed below); %d rejected by analysts (kept in the record and in the CSV and JSON exports). "+
+	p.para(fmt.Sprintf("%d indications recorded; %d reportable (listed below); %d rejected by analysts. "+
 		"Location is from the named landmark; phase in degrees; depth in %%TW with its uncertainty.", len(in.Indications), len(rows), rejected), "", 8.5)
+	if len(excluded) > 0 {
+		reasons := make([]string, 0, len(excluded))
+		for r := range excluded {
+			reasons = append(reasons, r)
+		}
+		sort.Strings(reasons)
+		for i, r := range reasons {
+			reasons[i] = fmt.Sprintf("%d %s", excluded[r], r)
+		}
+		p.para("Not listed (kept in the record and in the CSV and JSON exports): "+strings.Join(reasons, "; ")+".", "", 8.5)
+	}
 	p.f.Ln(1.5)
 	if len(rows) == 0 {
 		return

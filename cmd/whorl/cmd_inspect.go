@@ -252,7 +252,7 @@ func runInspect(ctx context.Context, e *env, fs *flag.FlagSet, args []string) er
 	if err != nil {
 		return err
 	}
-	files, err := workflow.WriteReports(ctx, st, rep, e.now)
+	files, err := workflow.WriteReports(ctx, st, rep, proc.ReportingPct, e.now)
 	st.Close()
 	if err != nil {
 		return err

@@ -160,7 +160,7 @@ func Demo(ctx context.Context, opt DemoOptions) (*DemoSummary, error) {
 		return nil, err
 	}
 	progress(Progress{Stage: "report", Done: 0, Total: 1})
-	if sum.Reports, err = WriteReports(ctx, st, filepath.Join(opt.Out, "report"), now); err != nil {
+	if sum.Reports, err = WriteReports(ctx, st, filepath.Join(opt.Out, "report"), proc.ReportingPct, now); err != nil {
 		return nil, err
 	}
 	progress(Progress{Stage: "report", Done: 1, Total: 1})

@@ -10,6 +10,7 @@ import (
 	"time"
 
 	"whorl/acquire"
+	"whorl/analysis"
 	"whorl/calibrate"
 	"whorl/reports"
 	"whorl/store"
@@ -30,12 +31,12 @@ type ReportFiles struct {
 // record into dir. Figures show each reportable indication's signal read
 // back from its scan file (verified against the recorded SHA-256) and
 // calibrated with the recorded calibration.
-func WriteReports(ctx context.Context, st *store.Store, dir string, now func() time.Time) (*ReportFiles, error) {
+func WriteReports(ctx context.Context, st *store.Store, dir string, reportingPct float64, now func() time.Time) (*ReportFiles, error) {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return nil, err
 	}
 	src := &signalSource{st: st, cals: map[string]*calibrate.Calibration{}, scans: map[string]*acquire.Scan{}}
-	in, err := reports.FromStore(ctx, st, reports.Options{Now: now, Curve: curvePoints, Window: src.window})
+	in, err := reports.FromStore(ctx, st, reports.Options{Now: now, Curve: curvePoints, Window: src.window, Exclude: reportingCriteria(reportingPct)})
 	if err != nil {
 		return nil, err
 	}
@@ -66,6 +67,31 @@ func WriteReports(ctx context.Context, st *store.Store, dir string, now func() t
 	return files, nil
 }
 
+// reportingCriteria keeps out of the report's table what the procedure
+// does not report: non-relevant classes, and flaw-like indications sized
+// below the reporting threshold. Everything stays in the record and the
+// exports; indications for the analyst, and unsized flaw-like ones, are
+// reported.
+func reportingCriteria(reportingPct float64) func(store.Indication) string {
+	return func(d store.Indication) string {
+		switch analysis.Class(d.Class) {
+		case analysis.ClassLandmark:
+			return "non-relevant: landmark (support, tubesheet)"
+		case analysis.ClassGeometry:
+			return "non-relevant: geometry (tube end, expansion, dent)"
+		case analysis.ClassDeposit:
+			return "non-relevant: deposit"
+		case analysis.ClassNoise:
+			return "noise"
+		case analysis.ClassFlaw:
+			if d.DepthPct != nil && *d.DepthPct < reportingPct {
+				return fmt.Sprintf("flaw-like, below the reporting threshold of %g %%TW", reportingPct)
+			}
+		}
+		return ""
+	}
+}
+
 // writeAtomic writes a file through a temporary file and a rename, so a
 // reader never sees half a report.
 func writeAtomic(path string, write func(*os.File) error) error {
@@ -74,7 +100,10 @@ func writeAtomic(path string, write func(*os.File) error) error {
 		return err
 	}
 	tmp := f.Name()
-	err = write(f)
+	err = f.Chmod(0o644)
+	if err == nil {
+		err = write(f)
+	}
 	if err == nil {
 		err = f.Sync()
 	}
