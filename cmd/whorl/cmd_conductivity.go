@@ -541,6 +541,7 @@ type calibrationReport struct {
 	Dof            int                    `json:"dof"`
 	Channels       []channelReport        `json:"channels"`
 	Residuals      []residualReport       `json:"residuals"`
+	Blocks         []blockReport          `json:"blocks"`
 	Warnings       []string               `json:"warnings"`
 	Calibration    *impedance.Calibration `json:"-"`
 }
@@ -551,6 +552,14 @@ type channelReport struct {
 	PhaseDeg float64 `json:"rotation_deg"`
 	OffsetX  float64 `json:"offset_x_v"`
 	OffsetY  float64 `json:"offset_y_v"`
+}
+
+// blockReport summarises the residuals of one reference (block or air).
+type blockReport struct {
+	Block    string  `json:"block"`
+	Readings int     `json:"readings"`
+	RMSV     float64 `json:"rms_residual_v"`
+	MaxV     float64 `json:"max_residual_v"`
 }
 
 type residualReport struct {
@@ -707,6 +716,22 @@ func calibrationReportOf(cal *impedance.Calibration, kind, file string) calibrat
 		rep.Residuals = append(rep.Residuals, residualReport{Block: r.Block, Shim: r.Shim, FreqHz: r.FreqHz,
 			IACS: r.ConductivitySPerM / 58e4, ShimM: r.ExtraLiftoffM, ResidualV: a})
 	}
+	at := map[string]int{}
+	for _, r := range rep.Residuals {
+		i, ok := at[r.Block]
+		if !ok {
+			i = len(rep.Blocks)
+			at[r.Block] = i
+			rep.Blocks = append(rep.Blocks, blockReport{Block: r.Block})
+		}
+		b := &rep.Blocks[i]
+		b.Readings++
+		b.RMSV += r.ResidualV * r.ResidualV
+		b.MaxV = math.Max(b.MaxV, r.ResidualV)
+	}
+	for i := range rep.Blocks {
+		rep.Blocks[i].RMSV = math.Sqrt(rep.Blocks[i].RMSV / float64(rep.Blocks[i].Readings))
+	}
 	if cal.NoiseV > 0 && worst > 4*cal.NoiseV {
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf("largest residual %.3g mV is %.1f× the noise: check that reading and its block or shim", worst*1e3, worst/cal.NoiseV))
 	}
@@ -752,6 +777,12 @@ func printCalibrationReport(w io.Writer, rep calibrationReport) {
 			shim = "-"
 		}
 		fmt.Fprintf(tw, "%s\t%s\t%s\t%.2f\t%.1f\t%.3f\n", r.Block, shim, impedance.FormatFrequency(r.FreqHz), r.IACS, r.ShimM*1e6, r.ResidualV*1e3)
+	}
+	tw.Flush()
+	fmt.Fprintln(w)
+	fmt.Fprintln(tw, "BLOCK\tREADINGS\tRMS RESIDUAL mV\tMAX mV")
+	for _, b := range rep.Blocks {
+		fmt.Fprintf(tw, "%s\t%d\t%.3f\t%.3f\n", b.Block, b.Readings, b.RMSV*1e3, b.MaxV*1e3)
 	}
 	tw.Flush()
 	for _, s := range rep.Warnings {
