@@ -163,6 +163,9 @@ func printSummary(w io.Writer, s *workflow.Summary) {
 		fmt.Fprintf(w, ": %s", abbreviate(s.OverThreshold, 12))
 	}
 	fmt.Fprintln(w)
+	if len(s.OverThresholdInvalid) > 0 {
+		fmt.Fprintf(w, "  and %d tubes of invalid groups, kept out of the report until re-tested: %s\n", len(s.OverThresholdInvalid), abbreviate(s.OverThresholdInvalid, 8))
+	}
 	fmt.Fprintf(w, "Calibration groups    %d", len(s.Groups))
 	if len(s.InvalidGroups) == 0 {
 		fmt.Fprintln(w, ", all closing checks passed")

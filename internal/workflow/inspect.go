@@ -94,12 +94,15 @@ type Summary struct {
 	NotExamined   []NotExamined  `json:"not_examined"`
 	Indications   int            `json:"indications"`
 	ByClass       map[string]int `json:"indications_by_class"`
-	Reportable    int            `json:"reportable"`
+	Reportable    int            `json:"reportable"` // flaw-like at or over the reporting threshold, valid groups
 	OverThreshold []string       `json:"components_over_threshold"`
-	Groups        []GroupResult  `json:"groups"`
-	InvalidGroups []string       `json:"invalid_groups"`
-	Retest        []string       `json:"retest"`
-	Elapsed       time.Duration  `json:"elapsed_ns"`
+	// OverThresholdInvalid lists components of invalid groups with
+	// indications over the threshold: kept out of the report, to re-test.
+	OverThresholdInvalid []string      `json:"components_over_threshold_invalid_group"`
+	Groups               []GroupResult `json:"groups"`
+	InvalidGroups        []string      `json:"invalid_groups"`
+	Retest               []string      `json:"retest"`
+	Elapsed              time.Duration `json:"elapsed_ns"`
 }
 
 // calScan is a calibration-standard scan found in the folder.
@@ -762,7 +765,7 @@ func summarise(ctx context.Context, st *store.Store, opt InspectOptions, sum *Su
 		return err
 	}
 	threshold := opt.Procedure.ReportingPct
-	over := map[string]bool{}
+	over, overInvalid := map[string]bool{}, map[string]bool{}
 	for _, c := range comps {
 		inds, err := st.Indications(ctx, c.ID)
 		if err != nil {
@@ -771,13 +774,19 @@ func summarise(ctx context.Context, st *store.Store, opt InspectOptions, sum *Su
 		for _, in := range inds {
 			sum.Indications++
 			sum.ByClass[in.Class]++
-			if in.Class == string(analysis.ClassFlaw) && in.DepthPct != nil && *in.DepthPct >= threshold {
-				sum.Reportable++
-				over[c.ID] = true
+			if in.Class != string(analysis.ClassFlaw) || in.DepthPct == nil || *in.DepthPct < threshold {
+				continue
 			}
+			if c.Status == store.StatusInvalidGroup {
+				overInvalid[c.ID] = true
+				continue
+			}
+			sum.Reportable++
+			over[c.ID] = true
 		}
 	}
 	sum.OverThreshold = sortedKeys(over)
+	sum.OverThresholdInvalid = sortedKeys(overInvalid)
 	sort.Strings(sum.Retest)
 	return nil
 }
