@@ -13,6 +13,7 @@ type ConvergenceError struct {
 	Residual float64 // root-sum-square residual at the last accepted point
 }
 
+// Error describes the stalled fit.
 func (e *ConvergenceError) Error() string {
 	return fmt.Sprintf("least-squares fit did not converge after %d iterations (residual %.3g)", e.Iter, e.Residual)
 }
