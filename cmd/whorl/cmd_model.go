@@ -70,13 +70,7 @@ Examples:
   whorl model tube --placement bobbin --mode differential --coil-gap 2.5mm ...`,
 		setFlags: func(fs *flag.FlagSet) {
 			modelCoilFlags(fs)
-			fs.String("placement", "", "coil `placement`: bobbin (inside) or encircling (outside) (required)")
-			fs.String("mode", "absolute", "absolute or differential")
-			fs.String("coil-gap", "", "centre spacing of the two coils of a differential pair, e.g. 2.5mm")
-			fs.String("tube-od", "", "tube outer diameter, e.g. 19.05mm or 0.75in (required)")
-			fs.String("wall", "", "wall thickness, e.g. 1.09mm, or solid for a rod (required)")
-			fs.String("conductivity", "", "tube conductivity, e.g. 1.4MS/m or 2.4%IACS (required)")
-			fs.Float64("mur", 1, "relative permeability of the tube (≥ 1)")
+			modelTubeFlags(fs, true)
 			fs.Var(&stringList{}, "freq", "excitation `frequency`, e.g. 100kHz (repeatable)")
 			fs.Bool("json", false, "print JSON (an object, or an array for several --freq)")
 		},
@@ -84,8 +78,8 @@ Examples:
 	})
 	register(&command{
 		name:     "model depth-profile",
-		synopsis: "eddy-current density and phase lag versus depth under a coil",
-		usage:    "whorl model depth-profile COIL FLAGS --liftoff H --freq F --layer T:SIGMA[:MUR]... [--radius R] [--max-depth D] [--points N] [--format table|csv|json]",
+		synopsis: "eddy-current density and phase lag versus depth under a coil or across a tube wall",
+		usage:    "whorl model depth-profile COIL FLAGS --freq F (--liftoff H --layer T:SIGMA[:MUR]... [--radius R] | --placement P --tube-od D --wall T --conductivity S [--mur M] [--axial Z]) [--max-depth D] [--points N] [--format table|csv|json]",
 		help: `Computes the eddy-current density induced by a coil above a layered
 conductor (Dodd–Deeds model) at one radius from the coil axis (default: the
 mean radius of the winding) and at evenly spaced depths below the surface.
@@ -95,16 +89,26 @@ current in degrees (unwrapped), and J per ampere of coil current in A/m²
 (real, imaginary). The default depth range is 5δ of the top layer, or the
 stack if thinner.
 
+With --placement (bobbin or encircling) and the tube flags of 'whorl model
+tube' the profile is taken across the tube wall instead, depth measured from
+the surface facing the coil (the bore for a bobbin coil, the outside for an
+encircling coil), in the plane --axial from the coil centre (default 0).
+
 Examples:
   whorl model depth-profile --inner-radius 2mm --outer-radius 3mm --coil-length 2mm \
       --turns 200 --liftoff 0.2mm --freq 50kHz --layer inf:1.4MS/m
-  whorl model depth-profile ... --layer 1mm:58MS/m --max-depth 1mm --points 21 --format csv`,
+  whorl model depth-profile ... --layer 1mm:58MS/m --max-depth 1mm --points 21 --format csv
+  whorl model depth-profile --placement bobbin --tube-od 19.05mm --wall 1.09mm \
+      --conductivity 1MS/m --inner-radius 7mm --outer-radius 7.6mm --coil-length 1.5mm \
+      --turns 60 --freq 100kHz --points 12`,
 		setFlags: func(fs *flag.FlagSet) {
 			modelCoilFlags(fs)
-			fs.String("liftoff", "", "gap between the winding and the surface, e.g. 0.5mm (required)")
+			fs.String("liftoff", "", "plate: gap between the winding and the surface, e.g. 0.5mm")
 			fs.String("freq", "", "excitation frequency, e.g. 50kHz (required)")
-			fs.Var(&stringList{}, "layer", "layer `T:SIGMA[:MUR]` top first (repeatable)")
-			fs.String("radius", "", "radius from the coil axis (default the mean winding radius)")
+			fs.Var(&stringList{}, "layer", "plate: layer `T:SIGMA[:MUR]` top first (repeatable)")
+			fs.String("radius", "", "plate: radius from the coil axis (default the mean winding radius)")
+			modelTubeFlags(fs, false)
+			fs.String("axial", "", "tube: axial distance from the coil centre, e.g. 1mm (default 0)")
 			fs.String("max-depth", "", "deepest point, e.g. 2mm (default 5δ or the stack)")
 			fs.Int("points", 26, "number of depths from 0 to --max-depth (2..10000)")
 			fs.String("format", "table", "output format: table, csv or json")
@@ -120,6 +124,78 @@ func modelCoilFlags(fs *flag.FlagSet) {
 	fs.String("outer-radius", "", "outer winding radius, e.g. 12.4mm (required)")
 	fs.String("coil-length", "", "winding length along the axis, e.g. 6.15mm (required)")
 	fs.Float64("turns", 0, "number of turns (required)")
+}
+
+// modelTubeFlags defines the tube flags shared by 'model tube' and
+// 'model depth-profile'.
+func modelTubeFlags(fs *flag.FlagSet, withMode bool) {
+	fs.String("placement", "", "coil `placement`: bobbin (inside) or encircling (outside)")
+	if withMode {
+		fs.String("mode", "absolute", "absolute or differential")
+		fs.String("coil-gap", "", "centre spacing of the two coils of a differential pair, e.g. 2.5mm")
+	}
+	fs.String("tube-od", "", "tube outer diameter, e.g. 19.05mm or 0.75in")
+	fs.String("wall", "", "wall thickness, e.g. 1.09mm, or solid for a rod")
+	fs.String("conductivity", "", "tube conductivity, e.g. 1.4MS/m or 2.4%IACS")
+	fs.Float64("mur", 1, "relative permeability of the tube (≥ 1)")
+}
+
+// modelTubeProbe reads the tube flags for coil c.
+func modelTubeProbe(fs *flag.FlagSet, c impedance.Coil) (impedance.TubeProbe, error) {
+	var err error
+	p := impedance.TubeProbe{Coil: c}
+	switch pl := flagString(fs, "placement"); strings.ToLower(pl) {
+	case "bobbin":
+		p.Placement = impedance.Bobbin
+	case "encircling":
+		p.Placement = impedance.Encircling
+	case "":
+		return p, usagef("--placement is required: bobbin or encircling")
+	default:
+		return p, usagef("--placement %q: expected bobbin or encircling", pl)
+	}
+	md := "absolute"
+	if fs.Lookup("mode") != nil {
+		md = flagString(fs, "mode")
+	}
+	switch strings.ToLower(md) {
+	case "absolute":
+	case "differential":
+		p.Differential = true
+		if p.CoilGapM, err = modelRequired(fs, "coil-gap", units.Length); err != nil {
+			return p, err
+		}
+	default:
+		return p, usagef("--mode %q: expected absolute or differential", md)
+	}
+	od, err := modelRequired(fs, "tube-od", units.Length)
+	if err != nil {
+		return p, err
+	}
+	p.TubeOuterRadiusM = od / 2
+	switch w := flagString(fs, "wall"); {
+	case w == "":
+		return p, usagef("--wall is required: a thickness such as 1.09mm, or solid for a rod")
+	case strings.EqualFold(w, "solid"):
+		p.TubeInnerRadiusM = 0
+	default:
+		t, err := units.Parse(units.Length, w)
+		if err != nil {
+			return p, usagef("--wall %v", err)
+		}
+		if !(t > 0) || !(t < p.TubeOuterRadiusM) {
+			return p, usagef("--wall %q: expected a thickness between 0 and the outer radius %g m", w, p.TubeOuterRadiusM)
+		}
+		p.TubeInnerRadiusM = p.TubeOuterRadiusM - t
+	}
+	if p.ConductivitySPerM, err = modelRequired(fs, "conductivity", units.Conductivity); err != nil {
+		return p, err
+	}
+	p.RelPermeability = flagFloat(fs, "mur")
+	if err := p.Validate(); err != nil {
+		return p, usagef("%v", err)
+	}
+	return p, nil
 }
 
 // modelRequired returns the value of a required quantity flag.
@@ -354,57 +430,13 @@ func runModelTube(ctx context.Context, e *env, fs *flag.FlagSet, args []string) 
 	if err != nil {
 		return err
 	}
-	p := impedance.TubeProbe{Coil: c}
-	switch pl := flagString(fs, "placement"); strings.ToLower(pl) {
-	case "bobbin":
-		p.Placement = impedance.Bobbin
-	case "encircling":
-		p.Placement = impedance.Encircling
-	case "":
-		return usagef("--placement is required: bobbin or encircling")
-	default:
-		return usagef("--placement %q: expected bobbin or encircling", pl)
-	}
-	switch md := flagString(fs, "mode"); strings.ToLower(md) {
-	case "absolute":
-	case "differential":
-		p.Differential = true
-		if p.CoilGapM, err = modelRequired(fs, "coil-gap", units.Length); err != nil {
-			return err
-		}
-	default:
-		return usagef("--mode %q: expected absolute or differential", md)
-	}
-	od, err := modelRequired(fs, "tube-od", units.Length)
+	p, err := modelTubeProbe(fs, c)
 	if err != nil {
 		return err
 	}
-	p.TubeOuterRadiusM = od / 2
-	switch w := flagString(fs, "wall"); {
-	case w == "":
-		return usagef("--wall is required: a thickness such as 1.09mm, or solid for a rod")
-	case strings.EqualFold(w, "solid"):
-		p.TubeInnerRadiusM = 0
-	default:
-		t, err := units.Parse(units.Length, w)
-		if err != nil {
-			return usagef("--wall %v", err)
-		}
-		if !(t > 0) || !(t < p.TubeOuterRadiusM) {
-			return usagef("--wall %q: expected a thickness between 0 and the outer radius %g m", w, p.TubeOuterRadiusM)
-		}
-		p.TubeInnerRadiusM = p.TubeOuterRadiusM - t
-	}
-	if p.ConductivitySPerM, err = modelRequired(fs, "conductivity", units.Conductivity); err != nil {
-		return err
-	}
-	p.RelPermeability = flagFloat(fs, "mur")
 	freqs, err := modelFreqs(fs)
 	if err != nil {
 		return err
-	}
-	if err := p.Validate(); err != nil {
-		return usagef("%v", err)
 	}
 	outs := make([]modelOutput, 0, len(freqs))
 	for _, f := range freqs {
@@ -449,20 +481,12 @@ func runModelDepthProfile(ctx context.Context, e *env, fs *flag.FlagSet, args []
 	if err != nil {
 		return err
 	}
-	lift, err := modelRequired(fs, "liftoff", units.Length)
-	if err != nil {
-		return err
-	}
 	f, err := modelRequired(fs, "freq", units.Frequency)
 	if err != nil {
 		return err
 	}
 	if !(f > 0) {
 		return usagef("--freq: expected a positive frequency")
-	}
-	layers, err := modelLayers(fs)
-	if err != nil {
-		return err
 	}
 	format := strings.ToLower(flagString(fs, "format"))
 	if flagBool(fs, "json") {
@@ -471,61 +495,137 @@ func runModelDepthProfile(ctx context.Context, e *env, fs *flag.FlagSet, args []
 	if format != "table" && format != "csv" && format != "json" {
 		return usagef("--format %q: expected table, csv or json", format)
 	}
-	radius := (c.InnerRadiusM + c.OuterRadiusM) / 2
-	if v, ok, err := flagQuantity(fs, "radius", units.Length); err != nil {
-		return err
-	} else if ok {
-		if !(v > 0) {
-			return usagef("--radius: expected a positive radius")
-		}
-		radius = v
-	}
 	n := flagInt(fs, "points")
 	if n < 2 || n > 10000 {
 		return usagef("--points %d: expected 2 to 10000", n)
 	}
-	// Depth range and the δ of the layer at each depth.
-	top := layers[0]
-	stack := 0.0
-	for _, l := range layers {
-		stack += l.ThicknessM
-	}
-	maxD := 5 * impedance.SkinDepthM(f, top.ConductivitySPerM, top.RelPermeability)
-	if stack < maxD {
-		maxD = stack
-	}
-	if v, ok, err := flagQuantity(fs, "max-depth", units.Length); err != nil {
+	maxSet, ok, err := flagQuantity(fs, "max-depth", units.Length)
+	if err != nil {
 		return err
-	} else if ok {
-		if !(v > 0) {
-			return usagef("--max-depth: expected a positive depth")
-		}
-		maxD = v
 	}
-	if math.IsInf(maxD, 0) {
-		return usagef("--max-depth is required when the top layer does not conduct")
+	if ok && !(maxSet > 0) {
+		return usagef("--max-depth: expected a positive depth")
+	}
+	var (
+		depths []float64
+		j      []complex128
+		layers []impedance.Layer // the material versus depth, for depth/δ
+		title  string
+	)
+	if flagSet(fs, "placement") {
+		p, err := modelTubeProbe(fs, c)
+		if err != nil {
+			return err
+		}
+		axial, _, err := flagQuantity(fs, "axial", units.Length)
+		if err != nil {
+			return err
+		}
+		wall := p.TubeOuterRadiusM - p.TubeInnerRadiusM
+		layers = []impedance.Layer{{ThicknessM: wall, ConductivitySPerM: p.ConductivitySPerM, RelPermeability: p.RelPermeability}}
+		depths = modelDepths(n, maxSet, f, layers)
+		if depths[n-1] > wall {
+			return usagef("--max-depth %g m: deeper than the wall (%g m)", depths[n-1], wall)
+		}
+		radii := make([]float64, n)
+		for i, d := range depths {
+			if p.Placement == impedance.Bobbin {
+				radii[i] = math.Min(p.TubeInnerRadiusM+d, p.TubeOuterRadiusM)
+			} else {
+				radii[i] = math.Max(p.TubeOuterRadiusM-d, p.TubeInnerRadiusM)
+			}
+		}
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		if j, err = p.CurrentDensity(f, radii, axial); err != nil {
+			return usagef("%v", err)
+		}
+		title = fmt.Sprintf("Eddy-current density across the wall (%s coil), %g mm from the coil centre, %g Hz (per ampere of coil current)", p.Placement, axial*1e3, f)
+	} else {
+		lift, err := modelRequired(fs, "liftoff", units.Length)
+		if err != nil {
+			return err
+		}
+		if layers, err = modelLayers(fs); err != nil {
+			return err
+		}
+		radius := (c.InnerRadiusM + c.OuterRadiusM) / 2
+		if v, ok, err := flagQuantity(fs, "radius", units.Length); err != nil {
+			return err
+		} else if ok {
+			if !(v > 0) {
+				return usagef("--radius: expected a positive radius")
+			}
+			radius = v
+		}
+		depths = modelDepths(n, maxSet, f, layers)
+		if math.IsInf(depths[n-1], 0) || math.IsNaN(depths[n-1]) {
+			return usagef("--max-depth is required when the top layer does not conduct")
+		}
+		p := impedance.Planar{Coil: c, LiftoffM: lift, Layers: layers}
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		if j, err = p.CurrentDensity(f, depths, radius); err != nil {
+			return usagef("%v", err)
+		}
+		title = fmt.Sprintf("Eddy-current density at r = %.4g mm, %g Hz (per ampere of coil current)", radius*1e3, f)
+	}
+	rows := depthRows(depths, j, f, layers)
+	switch format {
+	case "json":
+		return writeJSON(e.stdout, rows)
+	case "csv":
+		return writeDepthCSV(e.stdout, rows)
+	}
+	fmt.Fprintln(e.stdout, title)
+	tw := tabwriter.NewWriter(e.stdout, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "depth [mm]\tdepth/δ\t|J|/|J0|\tlag [deg]\t|J| [A/m²]\t")
+	for _, r := range rows {
+		fmt.Fprintf(tw, "%.4f\t%.3f\t%.4f\t%.1f\t%.4g\t\n", r.DepthM*1e3, r.DepthDelta, r.MagnitudeRel, r.PhaseLagDeg, math.Hypot(r.JRe, r.JIm))
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	_, err = fmt.Fprintln(e.stdout, "\n"+caution)
+	return err
+}
+
+// modelDepths returns n evenly spaced depths from 0 to maxD, or, if maxD is
+// 0, to 5δ of the top layer or the whole stack if that is thinner.
+func modelDepths(n int, maxD, freqHz float64, layers []impedance.Layer) []float64 {
+	if maxD == 0 {
+		top := layers[0]
+		maxD = 5 * impedance.SkinDepthM(freqHz, top.ConductivitySPerM, top.RelPermeability)
+		stack := 0.0
+		for _, l := range layers {
+			stack += l.ThicknessM
+		}
+		if stack < maxD {
+			maxD = stack
+		}
 	}
 	depths := make([]float64, n)
 	for i := range depths {
 		depths[i] = maxD * float64(i) / float64(n-1)
 	}
-	p := impedance.Planar{Coil: c, LiftoffM: lift, Layers: layers}
-	if err := ctx.Err(); err != nil {
-		return err
-	}
-	j, err := p.CurrentDensity(f, depths, radius)
-	if err != nil {
-		return usagef("%v", err)
-	}
-	rows := make([]depthRow, n)
+	return depths
+}
+
+// depthRows turns current densities at depths into table rows: depth in
+// standard depths of penetration counted layer by layer, magnitude
+// relative to the first (surface) value and the unwrapped phase lag
+// behind it.
+func depthRows(depths []float64, j []complex128, freqHz float64, layers []impedance.Layer) []depthRow {
+	rows := make([]depthRow, len(depths))
 	j0 := j[0]
 	prevPhase, unwrap := 0.0, 0.0
 	for i, d := range depths {
 		r := depthRow{DepthM: d, JRe: real(j[i]), JIm: imag(j[i])}
-		// δ of the layer at this depth, and the depth in δ counted layer by layer.
 		acc, top := 0.0, 0.0
 		for _, l := range layers {
-			dl := impedance.SkinDepthM(f, l.ConductivitySPerM, l.RelPermeability)
+			dl := impedance.SkinDepthM(freqHz, l.ConductivitySPerM, l.RelPermeability)
 			seg := math.Min(d, top+l.ThicknessM) - top
 			if seg > 0 && !math.IsInf(dl, 0) {
 				acc += seg / dl
@@ -552,23 +652,7 @@ func runModelDepthProfile(ctx context.Context, e *env, fs *flag.FlagSet, args []
 		}
 		rows[i] = r
 	}
-	switch format {
-	case "json":
-		return writeJSON(e.stdout, rows)
-	case "csv":
-		return writeDepthCSV(e.stdout, rows)
-	}
-	fmt.Fprintf(e.stdout, "Eddy-current density at r = %.4g mm, %g Hz (per ampere of coil current)\n", radius*1e3, f)
-	tw := tabwriter.NewWriter(e.stdout, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "depth [mm]\tdepth/δ\t|J|/|J0|\tlag [deg]\t|J| [A/m²]\t")
-	for _, r := range rows {
-		fmt.Fprintf(tw, "%.4f\t%.3f\t%.4f\t%.1f\t%.4g\t\n", r.DepthM*1e3, r.DepthDelta, r.MagnitudeRel, r.PhaseLagDeg, math.Hypot(r.JRe, r.JIm))
-	}
-	if err := tw.Flush(); err != nil {
-		return err
-	}
-	_, err = fmt.Fprintln(e.stdout, "\n"+caution)
-	return err
+	return rows
 }
 
 func writeDepthCSV(w io.Writer, rows []depthRow) error {

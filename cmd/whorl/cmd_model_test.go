@@ -161,3 +161,38 @@ func FuzzParseLayerSpec(f *testing.F) {
 		}
 	})
 }
+
+// TestModelDepthProfileTube checks the tube-wall profile: one row per
+// depth across the wall, relative magnitude decreasing and the phase lag
+// increasing from the bore outwards for a bobbin coil (a damped wave
+// entering the wall), and a depth beyond the wall refused.
+func TestModelDepthProfileTube(t *testing.T) {
+	t.Parallel()
+	args := []string{"model", "depth-profile", "--placement", "bobbin", "--tube-od", "19.05mm", "--wall", "1.09mm",
+		"--conductivity", "1MS/m", "--inner-radius", "7mm", "--outer-radius", "7.6mm", "--coil-length", "1.5mm",
+		"--turns", "60", "--freq", "100kHz", "--points", "6", "--json"}
+	code, out, errs := runCmd(t, args...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	var rows []struct {
+		DepthM float64 `json:"depth_m"`
+		Mag    float64 `json:"magnitude_rel"`
+		Lag    float64 `json:"phase_lag_deg"`
+	}
+	if err := json.Unmarshal([]byte(out), &rows); err != nil || len(rows) != 6 {
+		t.Fatalf("want 6 rows, got %d (%v)", len(rows), err)
+	}
+	if math.Abs(rows[5].DepthM-1.09e-3) > 1e-12 {
+		t.Errorf("last depth %g, want the wall 1.09e-3 m", rows[5].DepthM)
+	}
+	for i := 1; i < len(rows); i++ {
+		if !(rows[i].Mag < rows[i-1].Mag) || !(rows[i].Lag > rows[i-1].Lag) {
+			t.Errorf("row %d: |J|/|J0| %g, lag %g°; want decreasing magnitude and increasing lag", i, rows[i].Mag, rows[i].Lag)
+		}
+	}
+	code, _, errs = runCmd(t, append(args, "--max-depth", "2mm")...)
+	if code != exitUsage || !strings.Contains(errs, "wall") {
+		t.Errorf("depth beyond the wall: exit %d, %q", code, errs)
+	}
+}
