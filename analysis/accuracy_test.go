@@ -99,8 +99,8 @@ func TestAccuracyOnGeneratedInspections(t *testing.T) {
 		cfg  synth.Config
 		proc string
 	}{
-		{"demo", synth.Demo(), "../testdata/calibrate/demo-procedure.json"},
-		{"alternate", synth.Alternate(), "../testdata/calibrate/alternate-procedure.json"},
+		{"demo", synth.Demo(), "../internal/demodata/demo-procedure.json"},
+		{"alternate", synth.Alternate(), "../internal/demodata/alternate-procedure.json"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			acc, _ := analyseInspection(t, c.cfg, c.proc)

@@ -66,7 +66,7 @@ func bench20m(b *testing.B) (*calibrate.Calibration, *calibrate.Procedure, *acqu
 		b.Fatal(err)
 	}
 	std := g.Standard()
-	proc, err := calibrate.LoadProcedure("../testdata/calibrate/demo-procedure.json")
+	proc, err := calibrate.LoadProcedure("../internal/demodata/demo-procedure.json")
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -12,7 +12,7 @@ import (
 	"whorl/synth"
 )
 
-const demoProcedure = "../testdata/calibrate/demo-procedure.json"
+const demoProcedure = "../internal/demodata/demo-procedure.json"
 
 func demoCalibration(t *testing.T, g *synth.Generator, proc *calibrate.Procedure, gi int, closing bool, open *calibrate.Calibration) *calibrate.Calibration {
 	t.Helper()
@@ -93,7 +93,7 @@ func TestPhaseLagOnGeneratedStandard(t *testing.T) {
 			path := demoProcedure
 			prime := "400k-diff"
 			if cfg.Component != synth.Demo().Component {
-				path, prime = "../testdata/calibrate/alternate-procedure.json", "50k-diff"
+				path, prime = "../internal/demodata/alternate-procedure.json", "50k-diff"
 			}
 			proc, err := calibrate.LoadProcedure(path)
 			if err != nil {
@@ -149,7 +149,7 @@ func TestSetUpOnGeneratedStandards(t *testing.T) {
 	for _, c := range []struct {
 		cfg  synth.Config
 		proc string
-	}{{synth.Demo(), demoProcedure}, {synth.Alternate(), "../testdata/calibrate/alternate-procedure.json"}} {
+	}{{synth.Demo(), demoProcedure}, {synth.Alternate(), "../internal/demodata/alternate-procedure.json"}} {
 		g, err := synth.New(c.cfg)
 		if err != nil {
 			t.Fatal(err)

@@ -50,11 +50,11 @@ gives the true landmark positions that indication locations are mapped
 through. A missed target exits with code 4.
 
 Examples:
-  whorl analyze --calibration cal-CG01.json --procedure testdata/calibrate/demo-procedure.json \
-      --csv ind.csv demo/scans/R02C010.csv
+  whorl analyze --calibration cal-CG01.json --procedure whorl-demo/data/procedure.json \
+      --csv ind.csv whorl-demo/data/scans/R02C010.csv
   whorl analyze --calibration cal-CG01.json --calibration cal-CG02.json \
-      --procedure testdata/calibrate/demo-procedure.json \
-      --truth demo/truth.csv --manifest demo/manifest.json demo/scans`,
+      --procedure whorl-demo/data/procedure.json \
+      --truth whorl-demo/data/truth.csv --manifest whorl-demo/data/manifest.json whorl-demo/data/scans`,
 		setFlags: func(fs *flag.FlagSet) {
 			fs.Var(&stringList{}, "calibration", "calibration file (repeatable: one per calibration group); required")
 			fs.String("procedure", "", "procedure file the calibrations were built with; required")

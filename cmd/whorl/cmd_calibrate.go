@@ -54,10 +54,10 @@ The builder is $WHORL_USER (or --builder). 'whorl calibrate approve' records a
 Level III approval as a new version.
 
 Examples:
-  whorl calibrate --standard demo/standard.json --procedure testdata/calibrate/demo-procedure.json \
-      -o cal-CG01.json --plot curves.png demo/calibration/CG01-open.csv
-  whorl calibrate --standard demo/standard.json --procedure testdata/calibrate/demo-procedure.json \
-      --closing demo/calibration/CG04-close.csv --scans demo/scans -o cal-CG04.json demo/calibration/CG04-open.csv`,
+  whorl calibrate --standard whorl-demo/data/standard.json --procedure whorl-demo/data/procedure.json \
+      -o cal-CG01.json --plot curves.png whorl-demo/data/calibration/CG01-open.csv
+  whorl calibrate --standard whorl-demo/data/standard.json --procedure whorl-demo/data/procedure.json \
+      --closing whorl-demo/data/calibration/CG04-close.csv --scans whorl-demo/data/scans -o cal-CG04.json whorl-demo/data/calibration/CG04-open.csv`,
 		setFlags: func(fs *flag.FlagSet) {
 			fs.String("standard", "", "reference-standard file (JSON, docs/standard.md); required")
 			fs.String("procedure", "", "procedure file (JSON, docs/procedure.md); required")

@@ -8,7 +8,7 @@ import (
 	"testing"
 )
 
-const demoProc = "../../testdata/calibrate/demo-procedure.json"
+const demoProc = "../../internal/demodata/demo-procedure.json"
 
 // demoSet writes a small demo inspection: 8 tubes in 2 groups, the second
 // closing with a drifted calibration (synth.Demo's drift, 9° and 12 %).

@@ -99,6 +99,15 @@ func Demo(ctx context.Context, opt DemoOptions) (*DemoSummary, error) {
 	if err != nil {
 		return nil, fmt.Errorf("generate the demo inspection: %w", err)
 	}
+	// The procedure goes beside the data, so the folder can be inspected
+	// again with whorl inspect.
+	pj, err := demodata.ProcedureJSON(opt.Set)
+	if err != nil {
+		return nil, err
+	}
+	if err := os.WriteFile(filepath.Join(data, "procedure.json"), pj, 0o644); err != nil {
+		return nil, err
+	}
 	gen, err := synth.New(cfg)
 	if err != nil {
 		return nil, err
