@@ -1052,8 +1052,10 @@ func runCoatingMeasure(_ context.Context, e *env, fs *flag.FlagSet, args []strin
 		baseThick = setup.Blocks[0].ThicknessM
 	}
 	opt := impedance.InvertOptions{Specimen: impedance.Specimen{ConductivitySPerM: setup.BaseConductivitySPerM, ThicknessM: baseThick}}
+	unknowns := 2 // coating thickness and base conductivity
 	if flagBool(fs, "fix-base") {
 		opt.Solve = impedance.SolveLiftoff
+		unknowns = 1
 	}
 	var results []spotResult
 	failed := 0
@@ -1083,7 +1085,7 @@ func runCoatingMeasure(_ context.Context, e *env, fs *flag.FlagSet, args []strin
 		if inv.ExtraLiftoffM < -2*inv.UExtraLiftoffM-2.5e-6 {
 			res.Flags = append(res.Flags, "below the bare-base zero: check the zero and the base")
 		}
-		if 2*len(rd) > max(opt.Solve.Count(), 2) && cal.NoiseV > 0 && inv.MisfitV > 3*cal.NoiseV {
+		if 2*len(rd) > unknowns && cal.NoiseV > 0 && inv.MisfitV > 3*cal.NoiseV {
 			res.Flags = append(res.Flags, fmt.Sprintf("misfit (%.1f× noise)", inv.MisfitV/cal.NoiseV))
 		}
 		results = append(results, res)
