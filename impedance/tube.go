@@ -217,79 +217,111 @@ func (t TubeProbe) integrate(omega, d float64) (complex128, float64) {
 	return p * s, rel
 }
 
-// bobbinKernel returns C′(α)κ_I²(α) for a coil inside the tube (MODEL.md
-// §2.2):
+// tubeCoeffs are the exponentially scaled interface coefficients of the
+// cylindrical models at one wavenumber (MODEL.md §2.1–2.3).
+type tubeCoeffs struct {
+	a1     complex128 // α1 = √(α² + jωμ0μrσ)
+	z1, z2 complex128 // α1 b1, α1 b2
+	coef   complex128 // S̃ (bobbin) or R̃ (encircling tube); 0 for a borehole or rod
+	hasRef bool       // the far wall surface reflects (coef is used)
+	e      complex128 // e^{(z1−z2) + Re(z1−z2)}, the decay across the wall
+	near1  complex128 // bobbin: e^{z1}K1(z1); encircling: e^{−Re z2}I1(z2)
+	far1   complex128 // bobbin: e^{−Re z1}I1(z1); encircling: e^{z2}K1(z2)
+	cs     complex128 // bobbin: C′e^{2αb1}; encircling: C e^{−2αb2}
+	n1, m1 complex128 // bobbin: e^{αb1}K1(αb1), e^{−αb1}I1(αb1); encircling: e^{−αb2}I1(αb2), e^{αb2}K1(αb2)
+}
+
+// coeffs computes the reflection coefficient of the wall seen from the coil
+// (MODEL.md §2). Bobbin (§2.2):
 //
 //	C′ = [Y K1(αb1) + α K0(αb1)] / [α I0(αb1) − Y I1(αb1)],
 //	Y  = (α1/μr)[−K0(α1b1) + S I0(α1b1)] / [K1(α1b1) + S I1(α1b1)],
 //	S  = [(α1/μr)K0(α1b2) − ακ K1(α1b2)] / [ακ I1(α1b2) + (α1/μr)I0(α1b2)],
 //	κ  = K0(αb2)/K1(αb2),
 //
-// and Y = −(α1/μr)K0(α1b1)/K1(α1b1) for a borehole (b2 = ∞).
-func (t TubeProbe) bobbinKernel(a, k2, mu float64) complex128 {
-	b1, b2 := t.TubeInnerRadiusM, t.TubeOuterRadiusM
-	a1 := layerAlpha(a*a, k2)
-	q := a1 / complex(mu, 0)
-	z1 := a1 * complex(b1, 0)
-	k0z1, k1z1 := cbessel.K01Scaled(z1)
-	var y complex128
-	if math.IsInf(b2, 1) {
-		y = -q * k0z1 / k1z1
-	} else {
-		z2 := a1 * complex(b2, 0)
-		k0b, k1b := cbessel.K01Scaled(complex(a*b2, 0))
-		kap := complex(a, 0) * k0b / k1b
-		k0z2, k1z2 := cbessel.K01Scaled(z2)
-		i0z2, i1z2 := cbessel.I01Scaled(z2)
-		i0z1, i1z1 := cbessel.I01Scaled(z1)
-		sT := (q*k0z2 - kap*k1z2) / (kap*i1z2 + q*i0z2)
-		dz := z1 - z2
-		e := cmplx.Exp(dz + complex(real(dz), 0))
-		y = q * (-k0z1 + sT*i0z1*e) / (k1z1 + sT*i1z1*e)
-	}
-	ab := complex(a*b1, 0)
-	k0, k1 := cbessel.K01Scaled(ab)
-	i0, i1 := cbessel.I01Scaled(ab)
-	ca := complex(a, 0)
-	cs := (y*k1 + ca*k0) / (ca*i0 - y*i1) // C′ e^{2αb1}
-	ki := kappaIScaled(a, t.Coil.InnerRadiusM, t.Coil.OuterRadiusM)
-	return cs * complex(ki*ki*math.Exp(-2*a*(b1-t.Coil.OuterRadiusM)), 0)
-}
-
-// encirclingKernel returns C(α)κ_K²(α) for a coil around the tube or rod
-// (MODEL.md §2.1):
+// and Y = −(α1/μr)K0(α1b1)/K1(α1b1) for a borehole (b2 = ∞). Encircling
+// (§2.1):
 //
 //	C = [α I0(αb2) − Y I1(αb2)] / [α K0(αb2) + Y K1(αb2)],
 //	Y = (α1/μr) I0(α1b2)/I1(α1b2) for a rod, and for a tube
 //	Y = (α1/μr)[I0(α1b2) − R K0(α1b2)] / [I1(α1b2) + R K1(α1b2)],
 //	R = [(α1/μr)I0(α1b1) − αι I1(α1b1)] / [(α1/μr)K0(α1b1) + αι K1(α1b1)],
 //	ι = I0(αb1)/I1(αb1).
-func (t TubeProbe) encirclingKernel(a, k2, mu float64) complex128 {
+//
+// With the scaled Bessel functions S and R enter only through
+// S̃·e = S·e^{…} and R̃·e, which decay across the wall and never overflow.
+func (t TubeProbe) coeffs(a, k2, mu float64) tubeCoeffs {
 	b1, b2 := t.TubeInnerRadiusM, t.TubeOuterRadiusM
 	a1 := layerAlpha(a*a, k2)
 	q := a1 / complex(mu, 0)
-	z2 := a1 * complex(b2, 0)
-	i0z2, i1z2 := cbessel.I01Scaled(z2)
+	ca := complex(a, 0)
+	c := tubeCoeffs{a1: a1, z1: a1 * complex(b1, 0)}
+	if !math.IsInf(b2, 1) {
+		c.z2 = a1 * complex(b2, 0)
+	}
+	if t.Placement == Bobbin {
+		k0z1, k1z1 := cbessel.K01Scaled(c.z1)
+		i0z1, i1z1 := cbessel.I01Scaled(c.z1)
+		c.near1, c.far1 = k1z1, i1z1
+		var y complex128
+		if math.IsInf(b2, 1) {
+			y = -q * k0z1 / k1z1
+		} else {
+			k0b, k1b := cbessel.K01Scaled(complex(a*b2, 0))
+			kap := ca * k0b / k1b
+			k0z2, k1z2 := cbessel.K01Scaled(c.z2)
+			i0z2, i1z2 := cbessel.I01Scaled(c.z2)
+			c.coef = (q*k0z2 - kap*k1z2) / (kap*i1z2 + q*i0z2)
+			c.hasRef = true
+			d := c.z1 - c.z2
+			c.e = cmplx.Exp(d + complex(real(d), 0))
+			y = q * (-k0z1 + c.coef*i0z1*c.e) / (k1z1 + c.coef*i1z1*c.e)
+		}
+		ab := complex(a*b1, 0)
+		k0, k1 := cbessel.K01Scaled(ab)
+		i0, i1 := cbessel.I01Scaled(ab)
+		c.cs = (y*k1 + ca*k0) / (ca*i0 - y*i1)
+		c.n1, c.m1 = k1, i1
+		return c
+	}
+	i0z2, i1z2 := cbessel.I01Scaled(c.z2)
+	c.near1 = i1z2
 	var y complex128
 	if b1 == 0 {
 		y = q * i0z2 / i1z2
 	} else {
-		z1 := a1 * complex(b1, 0)
 		i0b, i1b := cbessel.I01Scaled(complex(a*b1, 0))
-		iota := complex(a, 0) * i0b / i1b
-		i0z1, i1z1 := cbessel.I01Scaled(z1)
-		k0z1, k1z1 := cbessel.K01Scaled(z1)
-		k0z2, k1z2 := cbessel.K01Scaled(z2)
-		rT := (q*i0z1 - iota*i1z1) / (q*k0z1 + iota*k1z1)
-		dz := z1 - z2
-		e := cmplx.Exp(dz + complex(real(dz), 0))
-		y = q * (i0z2 - rT*k0z2*e) / (i1z2 + rT*k1z2*e)
+		iota := ca * i0b / i1b
+		i0z1, i1z1 := cbessel.I01Scaled(c.z1)
+		k0z1, k1z1 := cbessel.K01Scaled(c.z1)
+		k0z2, k1z2 := cbessel.K01Scaled(c.z2)
+		c.far1 = k1z2
+		c.coef = (q*i0z1 - iota*i1z1) / (q*k0z1 + iota*k1z1)
+		c.hasRef = true
+		d := c.z1 - c.z2
+		c.e = cmplx.Exp(d + complex(real(d), 0))
+		y = q * (i0z2 - c.coef*k0z2*c.e) / (i1z2 + c.coef*k1z2*c.e)
 	}
 	ab := complex(a*b2, 0)
 	k0, k1 := cbessel.K01Scaled(ab)
 	i0, i1 := cbessel.I01Scaled(ab)
-	ca := complex(a, 0)
-	cs := (ca*i0 - y*i1) / (ca*k0 + y*k1) // C e^{−2αb2}
+	c.cs = (ca*i0 - y*i1) / (ca*k0 + y*k1)
+	c.n1, c.m1 = i1, k1
+	return c
+}
+
+// bobbinKernel returns C′(α)κ_I²(α) for a coil inside the tube:
+// [C′e^{2αb1}]·[κ_I e^{−αr2}]²·e^{−2α(b1−r2)} (MODEL.md §2.3).
+func (t TubeProbe) bobbinKernel(a, k2, mu float64) complex128 {
+	c := t.coeffs(a, k2, mu)
+	ki := kappaIScaled(a, t.Coil.InnerRadiusM, t.Coil.OuterRadiusM)
+	return c.cs * complex(ki*ki*math.Exp(-2*a*(t.TubeInnerRadiusM-t.Coil.OuterRadiusM)), 0)
+}
+
+// encirclingKernel returns C(α)κ_K²(α) for a coil around the tube or rod:
+// [C e^{−2αb2}]·[κ_K e^{αr1}]²·e^{−2α(r1−b2)} (MODEL.md §2.3).
+func (t TubeProbe) encirclingKernel(a, k2, mu float64) complex128 {
+	c := t.coeffs(a, k2, mu)
 	kk := kappaKScaled(a, t.Coil.InnerRadiusM, t.Coil.OuterRadiusM)
-	return cs * complex(kk*kk*math.Exp(-2*a*(t.Coil.InnerRadiusM-b2)), 0)
+	return c.cs * complex(kk*kk*math.Exp(-2*a*(t.Coil.InnerRadiusM-t.TubeOuterRadiusM)), 0)
 }
