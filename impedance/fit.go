@@ -177,9 +177,11 @@ var ErrTooFewReadings = errors.New("too few distinct reference readings for the 
 // Calibrate fits the instrument transform V = g·Zn + c of every frequency,
 // and optionally the effective lift-off and the coil scale, to readings on
 // references of known conductivity and shim thickness, by nonlinear least
-// squares (Levenberg–Marquardt, see lmProblem.solve) on the real and
-// imaginary parts of V − (g·Zn + c). The starting transform comes from the
-// linear least-squares fit at the nominal lift-off. The parameter
+// squares on the real and imaginary parts of V − (g·Zn + c): the transform
+// is solved by linear least squares at every trial of the lift-off and
+// coil scale, which Levenberg–Marquardt fits (variable projection; see
+// lmProblem.solve). An air reading (σ = 0, Zn = 1j) fixes c + j·g whatever
+// the lift-off and is worth including. The parameter
 // covariance is s²(JᵀJ)⁻¹ with s² = ‖r‖²/(2N − p) (or the given reading
 // noise), plus, for each block and shim with a certificate uncertainty u,
 // u²·(∂p/∂q)(∂p/∂q)ᵀ with ∂p/∂q = −(JᵀJ)⁻¹Jᵀ ∂r/∂q, the linearised change
