@@ -1,6 +1,8 @@
 package acquire
 
 import (
+	"errors"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -265,5 +267,29 @@ func TestUnterminatedLastRowAllowed(t *testing.T) {
 	s, err := ReadMapped(strings.NewReader("t;x;y\n0;1;2\n1;3;4"), "u.csv", m)
 	if err != nil || s.Len() != 2 {
 		t.Fatalf("got %v, %v; want 2 samples", s, err)
+	}
+}
+
+// TestLinesLongerThanTheBuffer reads lines longer than the 1 MiB read
+// buffer: a long metadata value, a long comment between rows and a long
+// last row cut off without a line end.
+func TestLinesLongerThanTheBuffer(t *testing.T) {
+	t.Parallel()
+	long := strings.Repeat("n", 3<<20)
+	text := "# whorl-scan 1\n# x-note: " + long + "\n# channel: c1; 100 kHz; absolute\ntime [s],c1 X [V],c1 Y [V]\n" +
+		"0,1,2\n# " + long + "\n0.001,3,4\n"
+	// Hide Len so that the reader uses its full-size streaming buffer.
+	s, err := ReadScan(struct{ io.Reader }{strings.NewReader(text)}, "long.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s.Meta.Extra["note"] != long || s.Len() != 2 || s.Channels[0].Samples[1] != complex(3, 4) {
+		t.Fatalf("got note of %d bytes, %d samples %v", len(s.Meta.Extra["note"]), s.Len(), s.Channels[0].Samples)
+	}
+	cut := "# whorl-scan 1\n# channel: c1; 100 kHz; absolute\ntime [s],c1 X [V],c1 Y [V]\n0,1,2\n0.001,3," + strings.Repeat("9", 2<<20)
+	_, err = ReadScan(struct{ io.Reader }{strings.NewReader(cut)}, "cut.csv")
+	var pe *ParseError
+	if !errors.As(err, &pe) || pe.Line != 5 || pe.Column != 3 || !errors.Is(err, ErrTruncated) {
+		t.Fatalf("got %v, want a truncation error at 5:3", err)
 	}
 }
