@@ -263,6 +263,8 @@ Exit codes: 0 success, 1 failure, 2 usage error, 3 bad input data,
 Environment:
   WHORL_USER   name of the person at this workstation (records and audit trail)
   WHORL_ROLE   their role: level1, level2, level3 or qa
+  WHORL_CERT_EXPIRY  last day their certificate is valid (YYYY-MM-DD), for
+               commands that record work (whorl inspect)
 
 `+caution+"\n")
 }
