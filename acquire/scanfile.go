@@ -940,17 +940,38 @@ func writeFileSafely(path string, noClobber bool, fn func(io.Writer) error) (err
 		return err
 	}
 	if !noClobber {
-		return os.Rename(tmp, path)
+		if err = os.Rename(tmp, path); err != nil {
+			return err
+		}
+		syncDir(dir)
+		return nil
 	}
 	defer os.Remove(tmp)
 	if err = os.Link(tmp, path); err == nil || errors.Is(err, fs.ErrExist) {
+		if err == nil {
+			syncDir(dir)
+		}
 		return err
 	}
 	// The file system has no hard links: check, then rename.
 	if _, serr := os.Lstat(path); serr == nil {
 		return &fs.PathError{Op: "create", Path: path, Err: fs.ErrExist}
 	}
-	return os.Rename(tmp, path)
+	if err = os.Rename(tmp, path); err != nil {
+		return err
+	}
+	syncDir(dir)
+	return nil
+}
+
+// syncDir flushes a folder's entry list so that a rename survives a crash.
+// Systems that cannot sync a folder (Windows) are left as they are: the
+// rename itself is still atomic there.
+func syncDir(dir string) {
+	if d, err := os.Open(dir); err == nil {
+		d.Sync()
+		d.Close()
+	}
 }
 
 // CreateScanFile writes s to a new file at path like WriteScanFile, but

@@ -98,6 +98,7 @@ type scanFileInfo struct {
 	ExcitationHz  []float64         `json:"excitation_hz,omitempty"`
 	SlotS         float64           `json:"slot_s,omitempty"`
 	Coil          string            `json:"coil,omitempty"`
+	Mode          string            `json:"mode,omitempty"` // raw records: the coil connection
 	Meta          map[string]string `json:"metadata,omitempty"`
 	Problems      []acquire.Problem `json:"problems"`
 	err           error
@@ -250,7 +251,7 @@ func fillRawInfo(r *scanFileInfo, rec *acquire.RawRecord) {
 	r.Component = rec.Meta.Component
 	r.Coil = rec.Coil
 	if rec.Mode != 0 {
-		r.Channels = append(r.Channels, scanChannelInfo{Name: rec.Coil, Mode: rec.Mode.String()})
+		r.Mode = rec.Mode.String()
 	}
 	r.Samples = len(rec.VoltageV)
 	r.SampleRateHz = rec.SampleRateHz
@@ -308,12 +309,12 @@ func printScanInfo(w io.Writer, r *scanFileInfo) {
 		row("component", r.Component)
 	}
 	if r.Kind == "raw" {
-		if r.Coil != "" || len(r.Channels) > 0 {
+		if r.Coil != "" || r.Mode != "" {
 			mode := ""
-			if len(r.Channels) > 0 {
-				mode = " (" + r.Channels[0].Mode + ")"
+			if r.Mode != "" {
+				mode = " (" + r.Mode + ")"
 			}
-			row("coil", r.Coil+mode)
+			row("coil", strings.TrimSpace(r.Coil+mode))
 		}
 		ex := make([]string, len(r.ExcitationHz))
 		for i, f := range r.ExcitationHz {
