@@ -25,6 +25,10 @@ const asymptoticJ0Min = 40
 // expansion of 𝐊_ν (DLMF 11.6.1), which gives
 //
 //	∫0^x J0 = 1 + x J0(x) + (πx/2)[J1(x) 𝐊0(x) − J0(x) 𝐊1(x)].
+//
+// Since 𝐊1 = 2/π + O(x⁻²), the x J0 terms cancel; they are removed
+// analytically (𝐊1 − 2/π is summed without its leading term) so that the
+// absolute error stays near 1e-16 for large x.
 func IntegralJ0(x float64) float64 {
 	if x < 0 {
 		return -IntegralJ0(-x)
@@ -32,7 +36,7 @@ func IntegralJ0(x float64) float64 {
 	if x <= asymptoticJ0Min {
 		return integralJ0Panels(0, x)
 	}
-	return 1 + x*math.J0(x) + math.Pi*x/2*(math.J1(x)*struveK(0, x)-math.J0(x)*struveK(1, x))
+	return 1 + math.Pi*x/2*(math.J1(x)*struveK(0, x, false)-math.J0(x)*struveK(1, x, true))
 }
 
 // coilF returns F(x) = ∫0^x J0 − x J0(x) (MODEL.md §1.2) for x ≥ 0.
@@ -41,7 +45,7 @@ func coilF(x float64) float64 {
 		return integralJ0Panels(0, x) - x*math.J0(x)
 	}
 	// The x J0 terms cancel exactly in the asymptotic form.
-	return 1 + math.Pi*x/2*(math.J1(x)*struveK(0, x)-math.J0(x)*struveK(1, x))
+	return 1 + math.Pi*x/2*(math.J1(x)*struveK(0, x, false)-math.J0(x)*struveK(1, x, false))
 }
 
 // integralJ0Panels integrates J0 over [a, b] with 10-point Gauss–Legendre
@@ -70,13 +74,17 @@ func integralJ0Panels(a, b float64) float64 {
 //	𝐊_ν(x) ~ (1/π) Σ_k Γ(k+½) (x/2)^{ν−2k−1} / Γ(ν+½−k),
 //
 // summed until the terms stop decreasing or fall below 1e-17 of the sum.
-// The ratio of consecutive terms is (k+½)(k+½−ν)·(2/x)²·(−1)... computed
-// by recurrence: Γ(k+3/2)/Γ(k+½) = k+½ and Γ(ν+½−k)/Γ(ν−½−k) = ν−½−k.
-func struveK(nu int, x float64) float64 {
+// Consecutive terms differ by the factor (k+½)(ν−½−k)(2/x)², from
+// Γ(k+3/2)/Γ(k+½) = k+½ and Γ(ν+½−k)/Γ(ν−½−k) = ν−½−k. With skipFirst the
+// k = 0 term (2/(πx) for ν = 0, 2/π for ν = 1) is left out of the sum.
+func struveK(nu int, x float64, skipFirst bool) float64 {
 	v := float64(nu)
 	// k = 0 term: Γ(½)(x/2)^{ν−1}/Γ(ν+½).
 	term := math.Sqrt(math.Pi) * math.Pow(x/2, v-1) / math.Gamma(v+0.5)
 	sum := term
+	if skipFirst {
+		sum = 0
+	}
 	q := 4 / (x * x)
 	for k := 0; k < 60; k++ {
 		next := term * (float64(k) + 0.5) * (v - 0.5 - float64(k)) * q
@@ -85,7 +93,7 @@ func struveK(nu int, x float64) float64 {
 		}
 		term = next
 		sum += term
-		if math.Abs(term) < 1e-17*math.Abs(sum) {
+		if math.Abs(term) < 1e-17*math.Abs(sum) || math.Abs(term) < 1e-300 {
 			break
 		}
 	}
