@@ -3,7 +3,6 @@ package acquire
 import (
 	"fmt"
 	"math"
-	"sort"
 )
 
 // Problem kinds reported by Inspect and InspectRaw.
@@ -164,12 +163,71 @@ func medianStep(v []float64) float64 {
 	for i := range d {
 		d[i] = math.Abs(v[i+1] - v[i])
 	}
-	sort.Float64s(d)
-	n := len(d)
+	return median(d)
+}
+
+// median returns the median of a (the mean of the two middle values for
+// an even length), reordering a. It runs in linear expected time.
+func median(a []float64) float64 {
+	n := len(a)
+	m := kth(a, n/2)
 	if n%2 == 1 {
-		return d[n/2]
+		return m
 	}
-	return (d[n/2-1] + d[n/2]) / 2
+	// After kth, a[:n/2] holds the n/2 smallest values.
+	lower := a[0]
+	for _, x := range a[1 : n/2] {
+		lower = math.Max(lower, x)
+	}
+	return (lower + m) / 2
+}
+
+// kth returns the k-th smallest value of a (from 0) and reorders a so that
+// a[:k] holds values no larger and a[k+1:] values no smaller. It is Hoare's
+// selection algorithm (C. A. R. Hoare, "Algorithm 65: Find", Comm. ACM
+// 4(7), 1961) with a median-of-three pivot. It panics if k is out of range;
+// a must not hold NaN.
+func kth(a []float64, k int) float64 {
+	if k < 0 || k >= len(a) {
+		panic("acquire: kth index out of range")
+	}
+	lo, hi := 0, len(a)-1
+	for lo < hi {
+		mid := lo + (hi-lo)/2
+		if a[mid] < a[lo] {
+			a[mid], a[lo] = a[lo], a[mid]
+		}
+		if a[hi] < a[lo] {
+			a[hi], a[lo] = a[lo], a[hi]
+		}
+		if a[hi] < a[mid] {
+			a[hi], a[mid] = a[mid], a[hi]
+		}
+		pivot := a[mid]
+		i, j := lo, hi
+		for i <= j {
+			for a[i] < pivot {
+				i++
+			}
+			for a[j] > pivot {
+				j--
+			}
+			if i <= j {
+				a[i], a[j] = a[j], a[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return a[k]
+		}
+	}
+	return a[k]
 }
 
 // valueProblems checks the components of one channel for non-finite
@@ -179,6 +237,7 @@ func medianStep(v []float64) float64 {
 // off by the instrument, not a quiet baseline).
 func valueProblems(name string, parts map[string][]float64, order []string) []Problem {
 	var out []Problem
+	var scratch []float64
 	constant := true
 	for _, p := range order {
 		v := parts[p]
@@ -206,12 +265,11 @@ func valueProblems(name string, parts map[string][]float64, order []string) []Pr
 		constant = false
 		// Only an extreme far from the bulk of the signal can be a clipped
 		// peak; a quiet baseline that happens to be the minimum is not.
-		sorted := append([]float64(nil), v...)
-		sort.Float64s(sorted)
-		median := sorted[len(sorted)/2]
+		scratch = append(scratch[:0], v...)
+		mid := kth(scratch, len(scratch)/2)
 		first, clipped := -1, 0
 		for _, ext := range []float64{lo, hi} {
-			if math.Abs(ext-median) <= 0.25*(hi-lo) {
+			if math.Abs(ext-mid) <= 0.25*(hi-lo) {
 				continue
 			}
 			run := 0

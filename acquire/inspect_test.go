@@ -2,6 +2,8 @@ package acquire
 
 import (
 	"math"
+	"math/rand/v2"
+	"sort"
 	"testing"
 )
 
@@ -78,5 +80,44 @@ func TestInspectRaw(t *testing.T) {
 	got := InspectRaw(r)
 	if len(got) != 1 || got[0].Kind != ProblemClipped || got[0].Index != 4 || got[0].Count != 3 {
 		t.Fatalf("got %+v, want one clipped run of 3 from sample 4", got)
+	}
+}
+
+// TestMedian checks the selection-based median against sorting.
+func TestMedian(t *testing.T) {
+	t.Parallel()
+	rng := rand.New(rand.NewPCG(1, 2))
+	for n := 1; n < 200; n++ {
+		for rep := range 5 {
+			a := make([]float64, n)
+			for i := range a {
+				switch rep {
+				case 0:
+					a[i] = rng.NormFloat64()
+				case 1:
+					a[i] = float64(rng.IntN(3)) // many repeats
+				case 2:
+					a[i] = float64(i) // sorted
+				case 3:
+					a[i] = float64(n - i) // reversed
+				default:
+					a[i] = 1 // constant
+				}
+			}
+			s := append([]float64(nil), a...)
+			sort.Float64s(s)
+			want := s[n/2]
+			if n%2 == 0 {
+				want = (s[n/2-1] + s[n/2]) / 2
+			}
+			if got := median(append([]float64(nil), a...)); got != want {
+				t.Fatalf("median of %v = %v, want %v (sorting)", a, got, want)
+			}
+			for k := range n {
+				if got := kth(append([]float64(nil), a...), k); got != s[k] {
+					t.Fatalf("kth(%v, %d) = %v, want %v", a, k, got, s[k])
+				}
+			}
+		}
 	}
 }
