@@ -63,3 +63,28 @@ var PlanarCases = []PlanarCase{
 // loop formula integrated by 12⁴ and 16⁴-point Gauss–Legendre (MODEL.md
 // §4.1, agreeing to 1e-10).
 const T15ImageMutualH = 84.98751490e-3
+
+// TubeCase is a cylindrical-model evaluation with its expected ΔZ.
+type TubeCase struct {
+	Name   string
+	Probe  impedance.TubeProbe
+	FreqHz float64
+	DZOhm  complex128
+	RelTol float64
+	Source string
+}
+
+func tube(p impedance.Placement, c impedance.Coil, b1, b2, sigma float64) impedance.TubeProbe {
+	return impedance.TubeProbe{Coil: c, Placement: p, TubeInnerRadiusM: b1, TubeOuterRadiusM: b2, ConductivitySPerM: sigma, RelPermeability: 1}
+}
+
+// TubeCases are known answers of the cylindrical models for a 19.05 mm ×
+// 1.09 mm tube of 1.0 MS/m, from testdata/impedance/gen_tube.py (mpmath
+// 1.2.1, 20 digits; μ0 = 4π×1e-7, hence the 1e-8 tolerance).
+var TubeCases = []TubeCase{
+	{"bobbin in tube 10 kHz", tube(impedance.Bobbin, Bobbin, 8.435e-3, 9.525e-3, 1e6), 1e4, 0.4585226489387535 - 0.1203145945660866i, 1e-8, "gen_tube.py"},
+	{"bobbin in tube 100 kHz", tube(impedance.Bobbin, Bobbin, 8.435e-3, 9.525e-3, 1e6), 1e5, 8.463798740554646 - 16.51498028847788i, 1e-8, "gen_tube.py"},
+	{"bobbin in tube 1 MHz", tube(impedance.Bobbin, Bobbin, 8.435e-3, 9.525e-3, 1e6), 1e6, 29.11021553925065 - 231.9547066941773i, 1e-8, "gen_tube.py"},
+	{"encircling tube 10 kHz", tube(impedance.Encircling, Encircling, 8.435e-3, 9.525e-3, 1e6), 1e4, 2.365349256007256 - 0.6593706996755241i, 1e-8, "gen_tube.py"},
+	{"encircling rod 100 kHz", tube(impedance.Encircling, Encircling, 0, 9.525e-3, 1e6), 1e5, 25.59065841276947 - 82.31445638165597i, 1e-8, "gen_tube.py"},
+}

@@ -27,3 +27,17 @@ func TestPlanarCases(t *testing.T) {
 		})
 	}
 }
+
+// TestTubeCases runs the cylindrical fixture cases through the model.
+func TestTubeCases(t *testing.T) {
+	t.Parallel()
+	for _, c := range TubeCases {
+		r, err := c.Probe.Impedance(c.FreqHz)
+		if err != nil {
+			t.Fatalf("%s: %v", c.Name, err)
+		}
+		if e := cmplx.Abs(r.DZOhm-c.DZOhm) / cmplx.Abs(c.DZOhm); e > c.RelTol {
+			t.Errorf("%s: ΔZ = %v, want %v (%s), rel %.2g > %g", c.Name, r.DZOhm, c.DZOhm, c.Source, e, c.RelTol)
+		}
+	}
+}
