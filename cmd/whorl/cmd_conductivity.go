@@ -135,6 +135,34 @@ Examples:
 		run: runCondMeasure,
 	})
 	register(&command{
+		name:     "conductivity check",
+		synopsis: "check a conductivity set-up on certified blocks; exit 4 when one is out of tolerance",
+		usage:    "whorl conductivity check --setup SETUP.json --blocks BLOCKS.csv [--shims SHIMS.csv] READINGS.csv",
+		help: `Measures certified blocks (readings in the calibration-readings format:
+block_id, shim_id, freq, x, y) with a set-up and compares each with its
+certificate: the check fails, with exit code 4, when a block reads further
+from its certified value than --tolerance (default ±1.0 %IACS, the
+MIL-STD-1537C instrument accuracy for aluminium alloys) or, with
+--liftoff-tolerance, a shim reads further from its thickness. Use it when
+re-standardising during work (conductivity practice re-checks the
+instrument frequently and whenever the temperature changes).
+
+Examples:
+  whorl conductivity check --setup cond-setup.json --blocks blocks.csv \
+      --shims shims.csv conductivity-calibration.csv
+  whorl conductivity check --setup cond-setup.json --blocks blocks.csv \
+      --tolerance 0.5%IACS --liftoff-tolerance 5um --json recheck.csv`,
+		setFlags: func(fs *flag.FlagSet) {
+			fs.String("setup", "", "set-up file from 'whorl conductivity calibrate' (required)")
+			fs.String("blocks", "", "reference-block file (CSV, required)")
+			fs.String("shims", "", "shim file (CSV), if readings use shims")
+			fs.String("tolerance", "1%IACS", "largest accepted deviation from a block's certified conductivity")
+			fs.String("liftoff-tolerance", "", "largest accepted deviation from a shim's thickness (default: not checked)")
+			fs.Bool("json", false, "print JSON")
+		},
+		run: runCondCheck,
+	})
+	register(&command{
 		name:     "coating calibrate",
 		synopsis: "fit a coating-thickness set-up from readings on a bare base and certified shims",
 		usage:    "whorl coating calibrate --probe PROBE.json --blocks BLOCKS.csv --shims SHIMS.csv --readings CAL.csv -o SETUP.json",
@@ -1317,4 +1345,141 @@ func alphaTableHelp() string {
 	}
 	b.WriteString("A Level III approves the coefficient used in a procedure.\n")
 	return b.String()
+}
+
+// checkRow is one line of conductivity check output.
+type checkRow struct {
+	Block      string    `json:"block"`
+	Shim       string    `json:"shim,omitempty"`
+	FreqsHz    []float64 `json:"freqs_hz"`
+	CertIACS   float64   `json:"certified_pct_iacs"`
+	IACS       float64   `json:"measured_pct_iacs"`
+	UIACS      float64   `json:"u_measured_pct_iacs"`
+	DevIACS    float64   `json:"deviation_pct_iacs"`
+	ShimUM     float64   `json:"shim_um"`
+	LiftoffUM  float64   `json:"measured_liftoff_um"`
+	ULiftoffUM float64   `json:"u_measured_liftoff_um"`
+	Pass       bool      `json:"pass"`
+	Reason     string    `json:"reason,omitempty"`
+}
+
+func runCondCheck(_ context.Context, e *env, fs *flag.FlagSet, args []string) error {
+	setup, m, err := loadSetup(fs, impedance.SetupConductivity)
+	if err != nil {
+		return err
+	}
+	if len(args) != 1 {
+		return usagef("give one READINGS.csv file (calibration-readings format)")
+	}
+	if flagString(fs, "blocks") == "" {
+		return usagef("--blocks is required")
+	}
+	tol, _, err := flagQuantity(fs, "tolerance", units.Conductivity)
+	if err != nil {
+		return err
+	}
+	ltol, checkLift, err := flagQuantity(fs, "liftoff-tolerance", units.Length)
+	if err != nil {
+		return err
+	}
+	if !(tol > 0) || (checkLift && !(ltol > 0)) {
+		return usagef("tolerances must be positive")
+	}
+	blocks, err := readWith(flagString(fs, "blocks"), impedance.ReadBlocks)
+	if err != nil {
+		return err
+	}
+	var shims []impedance.Shim
+	if name := flagString(fs, "shims"); name != "" {
+		if shims, err = readWith(name, impedance.ReadShims); err != nil {
+			return err
+		}
+	}
+	rs, err := readWith(args[0], impedance.ReadCalReadings)
+	if err != nil {
+		return err
+	}
+	pts, err := impedance.CalPointsFrom(blocks, shims, rs, args[0])
+	if err != nil {
+		return dataError(err)
+	}
+	// One inversion per block and shim, over all its frequencies.
+	type key struct{ block, shim string }
+	var order []key
+	group := map[key][]impedance.CalPoint{}
+	for _, p := range pts {
+		if p.Specimen.ConductivitySPerM == 0 {
+			continue // air
+		}
+		k := key{p.Block, p.Shim}
+		if _, ok := group[k]; !ok {
+			order = append(order, k)
+		}
+		group[k] = append(group[k], p)
+	}
+	if len(order) == 0 {
+		return dataError(fmt.Errorf("%s: no readings on conducting blocks", args[0]))
+	}
+	var rows []checkRow
+	failed := 0
+	for _, k := range order {
+		g := group[k]
+		row := checkRow{Block: k.block, Shim: k.shim, CertIACS: g[0].Specimen.ConductivitySPerM / 58e4, ShimUM: g[0].ExtraLiftoffM * 1e6}
+		var rd []impedance.Reading
+		for _, p := range g {
+			rd = append(rd, impedance.Reading{FreqHz: p.FreqHz, V: p.ReadingV})
+			row.FreqsHz = append(row.FreqsHz, p.FreqHz)
+		}
+		inv, err := setup.Calibration.Invert(m, rd, impedance.InvertOptions{Specimen: impedance.Specimen{ThicknessM: g[0].Specimen.ThicknessM}})
+		switch {
+		case err != nil:
+			row.Reason = "failed: " + err.Error()
+		default:
+			row.IACS, row.UIACS = inv.ConductivitySPerM/58e4, inv.UConductivitySPerM/58e4
+			row.DevIACS = row.IACS - row.CertIACS
+			row.LiftoffUM, row.ULiftoffUM = inv.ExtraLiftoffM*1e6, inv.UExtraLiftoffM*1e6
+			row.Pass = true
+			if math.Abs(row.DevIACS) > tol/58e4 {
+				row.Pass = false
+				row.Reason = fmt.Sprintf("deviation %+.2f %%IACS beyond ±%.2g", row.DevIACS, tol/58e4)
+			}
+			if checkLift && math.Abs(row.LiftoffUM-row.ShimUM) > ltol*1e6 {
+				row.Pass = false
+				row.Reason = strings.TrimPrefix(row.Reason+fmt.Sprintf("; lift-off %.1f µm against shim %.1f µm beyond ±%.3g µm", row.LiftoffUM, row.ShimUM, ltol*1e6), "; ")
+			}
+		}
+		if !row.Pass {
+			failed++
+		}
+		rows = append(rows, row)
+	}
+	if flagBool(fs, "json") {
+		if err := writeJSON(e.stdout, struct {
+			Pass    bool       `json:"pass"`
+			Rows    []checkRow `json:"blocks"`
+			Caution string     `json:"caution"`
+		}{failed == 0, rows, caution}); err != nil {
+			return err
+		}
+	} else {
+		tw := tabwriter.NewWriter(e.stdout, 0, 0, 2, ' ', 0)
+		fmt.Fprintln(tw, "BLOCK\tSHIM\tFREQ\tCERTIFIED %IACS\tMEASURED\t±u\tDEVIATION\tLIFT-OFF µm\tRESULT")
+		for _, r := range rows {
+			shim := r.Shim
+			if shim == "" {
+				shim = "-"
+			}
+			res := "pass"
+			if !r.Pass {
+				res = "FAIL: " + r.Reason
+			}
+			fmt.Fprintf(tw, "%s\t%s\t%s\t%.2f\t%.2f\t%.2f\t%+.2f\t%.1f\t%s\n", r.Block, shim, freqList(r.FreqsHz), r.CertIACS, r.IACS, r.UIACS, r.DevIACS, r.LiftoffUM, res)
+		}
+		tw.Flush()
+		fmt.Fprintf(e.stdout, "\n%s\n", caution)
+	}
+	if failed > 0 {
+		return checkFailed(fmt.Errorf("%d of %d block readings out of tolerance", failed, len(rows)))
+	}
+	return nil
 }

@@ -323,3 +323,33 @@ func TestConductivitySolveThickness(t *testing.T) {
 		t.Errorf("--solve thickness without --conductivity: exit %d, %q", code, stderr)
 	}
 }
+
+// TestConductivityCheck re-reads the certified blocks of the demo survey
+// with its own set-up: within ±1.0 %IACS (MIL-STD-1537C) they pass; with an
+// impossible ±0.01 %IACS the check fails with exit code 4.
+func TestConductivityCheck(t *testing.T) {
+	t.Parallel()
+	td := filepath.Join("..", "..", "testdata", "conductivity")
+	p := func(n string) string { return filepath.Join(td, n) }
+	setup := filepath.Join(t.TempDir(), "s.json")
+	if code, _, stderr := runCmd(t, "conductivity", "calibrate", "--probe", p("probe.json"), "--blocks", p("blocks.csv"), "--shims", p("shims.csv"),
+		"--readings", p("conductivity-calibration.csv"), "-o", setup); code != 0 {
+		t.Fatal(stderr)
+	}
+	args := []string{"conductivity", "check", "--setup", setup, "--blocks", p("blocks.csv"), "--shims", p("shims.csv"), "--json", p("conductivity-calibration.csv")}
+	code, stdout, stderr := runCmd(t, args...)
+	var res struct {
+		Pass   bool `json:"pass"`
+		Blocks []struct {
+			Block string `json:"block"`
+			Pass  bool   `json:"pass"`
+		} `json:"blocks"`
+	}
+	if code != 0 || json.Unmarshal([]byte(stdout), &res) != nil || !res.Pass || len(res.Blocks) != 20 {
+		t.Errorf("check at ±1 %%IACS: exit %d, %s %s", code, stdout, stderr)
+	}
+	code, _, stderr = runCmd(t, append(args, "--tolerance", "0.01%IACS")...)
+	if code != exitCheck || !strings.Contains(stderr, "out of tolerance") {
+		t.Errorf("check at ±0.01 %%IACS: exit %d, stderr %q; want exit %d", code, stderr, exitCheck)
+	}
+}
