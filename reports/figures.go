@@ -148,6 +148,9 @@ func lissajousFigure(d *Indication) (*plot.Plot, error) {
 	ylo, yhi = padRange(ylo, yhi)
 	span := math.Max(xhi-xlo, yhi-ylo)
 	xc, yc := (xlo+xhi)/2, (ylo+yhi)/2
+	if !finite(span, xc, yc, xc-span/2, xc+span/2, yc-span/2, yc+span/2) {
+		return nil, errors.New("signal window spans too large a range to plot")
+	}
 	p.X.Min, p.X.Max = xc-span/2, xc+span/2
 	p.Y.Min, p.Y.Max = yc-span/2, yc+span/2
 	return p, nil
@@ -171,6 +174,9 @@ func stripFigure(d *Indication) (*plot.Plot, error) {
 	}
 	lo, hi = padRange(lo, hi)
 	hi += 0.25 * (hi - lo) // headroom for the legend
+	if !finite(lo, hi, hi-lo) {
+		return nil, errors.New("signal window spans too large a range to plot")
+	}
 	p := newPlot()
 	p.Title.Text = "Strip chart"
 	p.X.Label.Text = "Sample"

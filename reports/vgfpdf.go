@@ -475,7 +475,11 @@ func (c *pdfCanvas) DrawImage(rect vg.Rectangle, img image.Image) {
 	if c.f.GetImageInfo(name) == nil {
 		c.f.RegisterImageOptionsReader(name, opt, &buf)
 	}
-	c.emitAlpha()
+	// The image carries its own transparency; the current colour's does
+	// not apply to it.
+	if a, bl := c.f.GetAlpha(); a != 1 || bl != "Normal" {
+		c.f.SetAlpha(1, "Normal")
+	}
 	// Place the image at rect as if the transform were the identity, then
 	// apply the transform about the canvas origin: in PDF space (points, y
 	// up) the canvas origin sits at (ox, oy), so the matrix to apply is

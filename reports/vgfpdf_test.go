@@ -2,9 +2,11 @@ package reports
 
 import (
 	"bytes"
+	"encoding/binary"
 	"fmt"
 	"image"
 	"image/color"
+	"io"
 	"math"
 	"os"
 	"os/exec"
@@ -794,6 +796,89 @@ func TestFigureStyles(t *testing.T) {
 			for _, want := range tc.wants {
 				if !got[want] {
 					t.Errorf("no stroke with %s; strokes have %v", want, got)
+				}
+			}
+		})
+	}
+}
+
+// FuzzFigureData draws the impedance-plane and strip-chart figures of
+// arbitrary signal windows (the bytes are read as float64 X, Y pairs) and
+// checks that drawing neither panics nor leaves fpdf in error, whatever
+// the values: equal, tiny, huge or non-finite (those are refused with an
+// error before drawing).
+func FuzzFigureData(f *testing.F) {
+	enc := func(vs ...float64) []byte {
+		b := make([]byte, 0, 8*len(vs))
+		for _, v := range vs {
+			b = binary.LittleEndian.AppendUint64(b, math.Float64bits(v))
+		}
+		return b
+	}
+	f.Add(enc(0, 0, 1, 1, 2, 0, 3, -1))
+	f.Add(enc(1, 1, 1, 1, 1, 1, 1, 1))
+	f.Add(enc(1e-300, 0, -1e-300, 5e-324, 0, 0, 1e-300, 1e-300))
+	f.Add(enc(1e300, -1e300, -1e300, 1e300, 1.7e308, 0, 0, -1.7e308))
+	f.Add(enc(math.NaN(), 0, 1, math.Inf(1), 2, 2, 3, 3))
+	// Registering the font is most of the cost of a document, so one
+	// document takes many executions (a worker runs them one at a time),
+	// a page each, and is replaced every 64 pages.
+	var ff *fpdf.Fpdf
+	f.Fuzz(func(t *testing.T, data []byte) {
+		n := len(data) / 16
+		if n < 2 || n > 512 {
+			return
+		}
+		w := &Window{FirstSample: 10, X: make([]float64, n), Y: make([]float64, n)}
+		for i := range n {
+			w.X[i] = math.Float64frombits(binary.LittleEndian.Uint64(data[16*i:]))
+			w.Y[i] = math.Float64frombits(binary.LittleEndian.Uint64(data[16*i+8:]))
+		}
+		d := &Indication{Window: w}
+		d.StartSample, d.EndSample = 10, 10+n
+		if ff == nil || ff.PageNo() >= 64 {
+			ff = fpdf.New("P", "mm", "A4", "")
+			ff.AddUTF8FontFromBytes("sans", "", liberationsansregular.TTF)
+		}
+		ff.AddPage()
+		for _, fig := range []func(*Indication) (*plot.Plot, error){lissajousFigure, stripFigure} {
+			p, err := fig(d)
+			if err != nil {
+				continue
+			}
+			c := newPDFCanvas(ff, "sans", tcX, tcY, tcW, tcH)
+			p.Draw(draw.New(c))
+			c.finish()
+		}
+		if err := ff.Error(); err != nil {
+			t.Fatalf("fpdf error after drawing X %v Y %v: %v", w.X, w.Y, err)
+		}
+		if ff.PageNo() == 64 {
+			if err := ff.Output(io.Discard); err != nil {
+				t.Fatalf("PDF output: %v", err)
+			}
+		}
+	})
+}
+
+func TestFigureRefusesUnplottableRange(t *testing.T) {
+	t.Parallel()
+	tests := []struct {
+		name string
+		x, y []float64
+	}{
+		// The padded span, 1.05·(1.7e308 + 1.7e308), overflows float64.
+		{"X spans the float64 range", []float64{-1.7e308, 0, 1.7e308}, []float64{0, 1, 0}},
+		{"Y spans the float64 range", []float64{0, 1, 0}, []float64{-1.7e308, 0, 1.7e308}},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			d := &Indication{Window: &Window{FirstSample: 0, X: tc.x, Y: tc.y}}
+			d.StartSample, d.EndSample = 0, 3
+			for name, fig := range map[string]func(*Indication) (*plot.Plot, error){"impedance plane": lissajousFigure, "strip chart": stripFigure} {
+				if _, err := fig(d); err == nil || !strings.Contains(err.Error(), "too large a range") {
+					t.Errorf("%s of X %v Y %v: error %v; want a refusal naming the range", name, tc.x, tc.y, err)
 				}
 			}
 		})
