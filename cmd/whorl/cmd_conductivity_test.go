@@ -282,13 +282,7 @@ func TestConductivityOnTestdata(t *testing.T) {
 // panels are refused with a clear reason.
 func TestConductivitySolveThickness(t *testing.T) {
 	t.Parallel()
-	td := filepath.Join("..", "..", "testdata", "conductivity")
-	p := func(n string) string { return filepath.Join(td, n) }
-	setup := filepath.Join(t.TempDir(), "s.json")
-	if code, _, stderr := runCmd(t, "conductivity", "calibrate", "--probe", p("probe.json"), "--blocks", p("blocks.csv"), "--shims", p("shims.csv"),
-		"--readings", p("conductivity-calibration.csv"), "-o", setup); code != 0 {
-		t.Fatal(stderr)
-	}
+	p, setup := testdataSetup(t)
 	code, stdout, stderr := runCmd(t, "conductivity", "measure", "--setup", setup, "--solve", "all", "--json", p("conductivity-readings.csv"))
 	if code != exitData || !strings.Contains(stderr, "could not be inverted") {
 		t.Errorf("exit %d, stderr %q: thick panels should fail", code, stderr)
@@ -329,13 +323,7 @@ func TestConductivitySolveThickness(t *testing.T) {
 // impossible ±0.01 %IACS the check fails with exit code 4.
 func TestConductivityCheck(t *testing.T) {
 	t.Parallel()
-	td := filepath.Join("..", "..", "testdata", "conductivity")
-	p := func(n string) string { return filepath.Join(td, n) }
-	setup := filepath.Join(t.TempDir(), "s.json")
-	if code, _, stderr := runCmd(t, "conductivity", "calibrate", "--probe", p("probe.json"), "--blocks", p("blocks.csv"), "--shims", p("shims.csv"),
-		"--readings", p("conductivity-calibration.csv"), "-o", setup); code != 0 {
-		t.Fatal(stderr)
-	}
+	p, setup := testdataSetup(t)
 	args := []string{"conductivity", "check", "--setup", setup, "--blocks", p("blocks.csv"), "--shims", p("shims.csv"), "--json", p("conductivity-calibration.csv")}
 	code, stdout, stderr := runCmd(t, args...)
 	var res struct {
@@ -352,4 +340,18 @@ func TestConductivityCheck(t *testing.T) {
 	if code != exitCheck || !strings.Contains(stderr, "out of tolerance") {
 		t.Errorf("check at ±0.01 %%IACS: exit %d, stderr %q; want exit %d", code, stderr, exitCheck)
 	}
+}
+
+// testdataSetup calibrates on the committed demo survey; it returns a
+// function giving the path of a file of the survey, and the set-up file.
+func testdataSetup(t *testing.T) (func(string) string, string) {
+	t.Helper()
+	td := filepath.Join("..", "..", "testdata", "conductivity")
+	p := func(n string) string { return filepath.Join(td, n) }
+	setup := filepath.Join(t.TempDir(), "s.json")
+	if code, _, stderr := runCmd(t, "conductivity", "calibrate", "--probe", p("probe.json"), "--blocks", p("blocks.csv"), "--shims", p("shims.csv"),
+		"--readings", p("conductivity-calibration.csv"), "-o", setup); code != 0 {
+		t.Fatal(stderr)
+	}
+	return p, setup
 }
