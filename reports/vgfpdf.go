@@ -38,7 +38,7 @@ import (
 // registers "sans" regular and bold). The text's glyph widths are gonum/plot's
 // own measurement of the face it passes; they agree with the PDF only when
 // the figure's fonts are the same typeface as the family, so the report's
-// figures use Liberation Sans (see sansFonts).
+// figures use Liberation Sans (see newPlot).
 //
 // Paths with a non-finite coordinate are not drawn (they would make the
 // content stream invalid). The canvas changes fpdf's draw, fill and text

@@ -87,6 +87,16 @@ func drawOps(t *testing.T, fn func(c *pdfCanvas)) ([]op, []byte) {
 	return tokenize(s[i+len("%canvas-begin\n") : j]), b.Bytes()
 }
 
+// drawPlot draws the plot fig makes on the test canvas, as drawOps.
+func drawPlot(t *testing.T, fig func() (*plot.Plot, error)) ([]op, []byte) {
+	t.Helper()
+	p, err := fig()
+	if err != nil {
+		t.Fatal(err)
+	}
+	return drawOps(t, func(c *pdfCanvas) { p.Draw(draw.New(c)) })
+}
+
 // tokenize splits a content stream into operators and their operands:
 // numbers, names, arrays and literal strings (PDF 32000-1:2008, 7.8.2).
 func tokenize(s string) []op {
@@ -679,11 +689,7 @@ func TestFigureTextLayout(t *testing.T) {
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()
-			p, err := tc.fig()
-			if err != nil {
-				t.Fatal(err)
-			}
-			_, pdf := drawOps(t, func(c *pdfCanvas) { p.Draw(draw.New(c)) })
+			_, pdf := drawPlot(t, tc.fig)
 			words := pdfWords(t, pdf)
 			if len(words) < 8 {
 				t.Fatalf("%d words found; want the title, axis labels and tick labels", len(words))
@@ -773,11 +779,7 @@ func TestFigureStyles(t *testing.T) {
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()
-			p, err := tc.fig()
-			if err != nil {
-				t.Fatal(err)
-			}
-			ops, _ := drawOps(t, func(c *pdfCanvas) { p.Draw(draw.New(c)) })
+			ops, _ := drawPlot(t, tc.fig)
 			var clr, w, dash string
 			got := map[string]bool{}
 			for _, o := range ops {
