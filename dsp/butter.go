@@ -325,7 +325,7 @@ func (s SOS) FilterReal(dst, x []float64) []float64 {
 		var z1, z2 float64
 		for i, v := range dst {
 			y := b0*v + z1
-			z1 = b1*v - a1*y + z2
+			z1 = (b1*v + z2) - a1*y
 			z2 = b2*v - a2*y
 			dst[i] = y
 		}
@@ -353,10 +353,12 @@ func (s SOS) filterState(dst, x []complex128, z [][2]complex128) {
 		z2r, z2i := real(z[k][1]), imag(z[k][1])
 		for i, v := range src {
 			vr, vi := real(v), imag(v)
+			// Ordered so the recursive path (y → a1·y → z1 → next y) is
+			// one multiply and two adds long.
 			yr := b0*vr + z1r
 			yi := b0*vi + z1i
-			z1r = b1*vr - a1*yr + z2r
-			z1i = b1*vi - a1*yi + z2i
+			z1r = (b1*vr + z2r) - a1*yr
+			z1i = (b1*vi + z2i) - a1*yi
 			z2r = b2*vr - a2*yr
 			z2i = b2*vi - a2*yi
 			dst[i] = complex(yr, yi)
