@@ -38,11 +38,14 @@ var diagramFormats = map[string]bool{"png": true, "svg": true, "pdf": true}
 // Plot draws the diagram with gonum/plot: one line per curve in the legend,
 // the parameter value written beside about five points of each curve, and
 // the markers (air point) as labelled points. Axes are ΔR/X0 and X/X0.
-func (d *Diagram) Plot() (*plot.Plot, error) {
+func (d *Diagram) Plot() (*plot.Plot, error) { return d.plot(func(s string) string { return s }) }
+
+// plot draws the diagram with every text passed through txt.
+func (d *Diagram) plot(txt func(string) string) (*plot.Plot, error) {
 	p := plot.New()
-	p.Title.Text = d.Title
-	p.X.Label.Text = d.XLabel
-	p.Y.Label.Text = d.YLabel
+	p.Title.Text = txt(d.Title)
+	p.X.Label.Text = txt(d.XLabel)
+	p.Y.Label.Text = txt(d.YLabel)
 	p.Add(plotter.NewGrid())
 	// Room above the air point for the legend, which sits top right.
 	xmin, xmax, ymin, ymax := math.Inf(1), math.Inf(-1), math.Inf(1), math.Inf(-1)
@@ -74,13 +77,13 @@ func (d *Diagram) Plot() (*plot.Plot, error) {
 		line.Width = vg.Points(1.5)
 		line.Dashes = diagramDashes[(i/len(diagramColours))%len(diagramDashes)]
 		p.Add(line)
-		p.Legend.Add(c.Label, line)
+		p.Legend.Add(txt(c.Label), line)
 
 		// Parameter values at about five points of the curve.
 		n := len(c.Points)
 		stride := max(1, (n-1)/4)
 		var lxy plotter.XYs
-		var txt []string
+		var labelText []string
 		for j := 0; j < n; j += stride {
 			crowded := false
 			for _, q := range placed {
@@ -93,7 +96,7 @@ func (d *Diagram) Plot() (*plot.Plot, error) {
 			}
 			placed = append(placed, xy[j])
 			lxy = append(lxy, xy[j])
-			txt = append(txt, FormatParam(d.Family, c.Values[j]))
+			labelText = append(labelText, txt(FormatParam(d.Family, c.Values[j])))
 		}
 		if len(lxy) > 0 {
 			dots, err := plotter.NewScatter(lxy)
@@ -102,7 +105,7 @@ func (d *Diagram) Plot() (*plot.Plot, error) {
 			}
 			dots.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(2), Shape: draw.CircleGlyph{}}
 			p.Add(dots)
-			labels, err := plotter.NewLabels(plotter.XYLabels{XYs: lxy, Labels: txt})
+			labels, err := plotter.NewLabels(plotter.XYLabels{XYs: lxy, Labels: labelText})
 			if err != nil {
 				return nil, err
 			}
@@ -116,10 +119,10 @@ func (d *Diagram) Plot() (*plot.Plot, error) {
 	}
 	if len(d.Markers) > 0 {
 		mxy := make(plotter.XYs, len(d.Markers))
-		txt := make([]string, len(d.Markers))
+		markerText := make([]string, len(d.Markers))
 		for i, m := range d.Markers {
 			mxy[i] = plotter.XY{X: real(m.Point), Y: imag(m.Point)}
-			txt[i] = m.Label
+			markerText[i] = txt(m.Label)
 		}
 		sc, err := plotter.NewScatter(mxy)
 		if err != nil {
@@ -127,7 +130,7 @@ func (d *Diagram) Plot() (*plot.Plot, error) {
 		}
 		sc.GlyphStyle = draw.GlyphStyle{Color: color.Black, Radius: vg.Points(3), Shape: draw.PlusGlyph{}}
 		p.Add(sc)
-		lb, err := plotter.NewLabels(plotter.XYLabels{XYs: mxy, Labels: txt})
+		lb, err := plotter.NewLabels(plotter.XYLabels{XYs: mxy, Labels: markerText})
 		if err != nil {
 			return nil, err
 		}
@@ -144,7 +147,11 @@ func (d *Diagram) WriteImage(w io.Writer, format string, width, height vg.Length
 	if !diagramFormats[format] {
 		return fmt.Errorf("image format %q: expected png, svg or pdf", format)
 	}
-	p, err := d.Plot()
+	txt := func(s string) string { return s }
+	if format == "pdf" {
+		txt = pdfText
+	}
+	p, err := d.plot(txt)
 	if err != nil {
 		return err
 	}
@@ -173,4 +180,37 @@ func (d *Diagram) Save(path string) (err error) {
 		}
 	}()
 	return d.WriteImage(f, format, 16*vg.Centimeter, 14*vg.Centimeter)
+}
+
+// pdfText rewrites a label for gonum/plot's PDF canvas, whose embedded
+// fonts use the Windows-1252 code page: characters of that code page are
+// written as its single bytes, ΔR becomes (R-R0) (the same quantity,
+// R − R0 with R0 the coil's resistance in air), μ the micro sign, ∞ "inf",
+// and anything else outside the code page "?".
+func pdfText(s string) string {
+	s = strings.ReplaceAll(s, "ΔR", "(R-R0)")
+	var b strings.Builder
+	for _, r := range s {
+		switch {
+		case r < 0x80:
+			b.WriteRune(r)
+		case r >= 0xA0 && r <= 0xFF:
+			b.WriteByte(byte(r))
+		case r == 'μ': // Greek mu: the micro sign looks the same
+			b.WriteByte(0xB5)
+		case r == '…':
+			b.WriteByte(0x85)
+		case r == '–':
+			b.WriteByte(0x96)
+		case r == '—':
+			b.WriteByte(0x97)
+		case r == '−':
+			b.WriteByte('-')
+		case r == '∞':
+			b.WriteString("inf")
+		default:
+			b.WriteByte('?')
+		}
+	}
+	return b.String()
 }

@@ -178,3 +178,20 @@ func TestDiagramImages(t *testing.T) {
 		t.Error("Save accepted a .gif name")
 	}
 }
+
+func TestPDFText(t *testing.T) {
+	t.Parallel()
+	tests := []struct{ in, want string }{
+		{"ΔR/X0", "(R-R0)/X0"},
+		{"lift-off 50 µm", "lift-off 50 \xb5m"},
+		{"μr 20", "\xb5r 20"},
+		{"20 °C", "20 \xb0C"},
+		{"thickness ∞", "thickness inf"},
+		{"Ω", "?"},
+	}
+	for _, tc := range tests {
+		if got := pdfText(tc.in); got != tc.want {
+			t.Errorf("pdfText(%q) = %q, want %q", tc.in, got, tc.want)
+		}
+	}
+}
