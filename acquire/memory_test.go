@@ -14,6 +14,9 @@ func TestReadScanFileMemory(t *testing.T) {
 	if testing.Short() {
 		t.Skip("writes an 8 MB file")
 	}
+	if raceEnabled {
+		t.Skip("the race detector changes allocation counts")
+	}
 	text := benchScanText(8<<20, -1)
 	path := filepath.Join(t.TempDir(), "mem.csv")
 	if err := os.WriteFile(path, text, 0o644); err != nil {
