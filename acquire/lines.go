@@ -120,6 +120,12 @@ func (lr *lineReader) next() ([]byte, bool, error) {
 		b = b[:n-1]
 	}
 	lr.line++
+	if lr.line == 1 && bytes.IndexByte(b, '\r') >= 0 {
+		// Lines ended by a bare carriage return would make the whole file
+		// one line; say so rather than report a strange first field.
+		return nil, false, &ParseError{File: lr.name, Line: 1, Err: kerr(ErrSyntax, "carriage return inside the first line (lines ended by CR alone?)"),
+			Expected: "lines ending in LF or CRLF"}
+	}
 	return b, true, nil
 }
 

@@ -93,6 +93,8 @@ var malformedCases = []malformedCase{
 	// Found by FuzzFastDecimal: a form feed is not a space.
 	{"form feed before a number", "scan", scanHdr + "0,\f1,2\n", "", 4, 2, ErrSyntax,
 		`bad.csv:4:2 (column "c1 X [V]"): "\f1" is not a number; expected a decimal number in V`},
+	{"lines ended by CR alone", "scan", "# whorl-scan 1\r# channel: c1; 100 kHz; absolute\rtime [s],c1 X [V],c1 Y [V]\r0,1,2\r", "", 1, 0, ErrSyntax,
+		`bad.csv:1: carriage return inside the first line (lines ended by CR alone?); expected lines ending in LF or CRLF`},
 	{"text after closing quote", "scan", scanHdr + "0,\"1\"x,2\n", "", 4, 2, ErrSyntax,
 		`bad.csv:4:2 (column "c1 X [V]"): 'x' after a closing quote; expected fields separated by commas, quoted fields closed with a double quote`},
 	{"mixed decimal marks", "scan", scanHdrS + "0;1,5;2\n0,001;1.5;2\n", "", 5, 2, ErrSyntax,
