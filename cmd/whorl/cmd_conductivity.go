@@ -767,7 +767,7 @@ func calibrationReportOf(cal *impedance.Calibration, kind, file string) calibrat
 		rep.Warnings = append(rep.Warnings, "as many parameters as reading components: the reading noise cannot be estimated; give --noise or more readings, or uncertainties will cover the certificates only")
 	}
 	if rep.ULiftoffM > 20e-6 {
-		rep.Warnings = append(rep.Warnings, fmt.Sprintf("effective lift-off poorly determined (u = %.0f µm): add shims or blocks, or keep the probe value with --fit-liftoff=false", rep.ULiftoffM*1e6))
+		rep.Warnings = append(rep.Warnings, fmt.Sprintf("effective lift-off poorly determined (u = %.0f µm; its effect is carried into the reported uncertainties): thicker shims or more blocks fix it better", rep.ULiftoffM*1e6))
 	}
 	return rep
 }
