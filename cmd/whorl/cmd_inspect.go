@@ -61,7 +61,7 @@ Examples:
 		usage:    "whorl inspect --procedure PROC.json --standard STD.json [--map MAP.json] [--db FILE] [--report DIR] [--jobs N] [--json] DIR",
 		help: `Runs the whole inspection on a folder of your own:
 
-  DIR/calibration/*.csv   calibration-standard scans: metadata "calibration"
+  DIR/calibration/*.csv   calibration-standard scans: metadata "x-calibration"
                           is open or close, "cal-group" names the group
   DIR/scans/*.csv         one scan per component (Whorl CSV, or foreign CSV
                           read through --map)

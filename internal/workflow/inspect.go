@@ -25,9 +25,9 @@ import (
 
 // Folder layout read by Inspect (docs/inspection-folder.md):
 //
-//	DIR/calibration/*.csv  calibration-standard scans; metadata key
-//	                       "calibration" is "open" or "close", and
-//	                       cal-group names the group
+//	DIR/calibration/*.csv  calibration-standard scans; metadata
+//	                       "x-calibration" is "open" or "close", and
+//	                       "cal-group" names the group
 //	DIR/scans/*.csv        one scan per component (tube), Whorl CSV, or a
 //	                       foreign CSV read through the column map
 const (
@@ -237,10 +237,10 @@ func findCalibrationScans(dir string, m *acquire.ColumnMap) ([]calScan, error) {
 		}
 		which := s.Meta.Extra["calibration"]
 		if which != "open" && which != "close" {
-			return nil, fmt.Errorf("%s: metadata \"calibration\" is %q; expected open or close", f, which)
+			return nil, fmt.Errorf("%s: metadata x-calibration is %q; expected open or close", f, which)
 		}
 		if s.Meta.CalGroup == "" {
-			return nil, fmt.Errorf("%s: no calibration group in the metadata (cal-group)", f)
+			return nil, fmt.Errorf("%s: no calibration group in the metadata (# cal-group: NAME)", f)
 		}
 		out = append(out, calScan{path: f, group: s.Meta.CalGroup, closing: which == "close", scan: s})
 	}
