@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"sync"
 	"testing"
 
 	"fyne.io/fyne/v2"
@@ -23,13 +24,39 @@ func testParams() viewmodel.ModelParams {
 		LiftoffM: 0.2e-3, ThicknessM: math.Inf(1), SigmaSPerM: 17e6, MuR: 1, FreqHz: 100e3}
 }
 
+// queue collects results of background work; the test applies them on
+// its own goroutine (Shell.Wait drains it), as the UI thread would.
+type queue struct {
+	mu sync.Mutex
+	fs []func()
+}
+
+func (q *queue) post(f func()) {
+	q.mu.Lock()
+	q.fs = append(q.fs, f)
+	q.mu.Unlock()
+}
+
+func (q *queue) drain() bool {
+	q.mu.Lock()
+	fs := q.fs
+	q.fs = nil
+	q.mu.Unlock()
+	for _, f := range fs {
+		f()
+	}
+	return len(fs) > 0
+}
+
 // openShell opens the workstation on src in a 1366×768 test window.
 func openShell(t *testing.T, src viewmodel.Source, variant Variant) (*Shell, fyne.Window) {
 	t.Helper()
 	test.NewTempApp(t)
 	w := test.NewTempWindow(t, nil)
 	w.Resize(fyne.NewSize(1366, 768))
-	s := NewShell(w, src, Options{Variant: variant, Model: vmtest.Model{}, ModelParams: testParams(), ReportDir: t.TempDir()})
+	q := &queue{}
+	s := NewShell(w, src, Options{Variant: variant, Model: vmtest.Model{}, ModelParams: testParams(), ReportDir: t.TempDir(),
+		Post: q.post, Drain: q.drain})
 	t.Cleanup(s.Close)
 	s.Wait()
 	return s, w
@@ -235,10 +262,11 @@ func TestModelAndReportDesks(t *testing.T) {
 	if s.Desk() != DeskReport {
 		t.Fatalf("F5 shows %q", s.Desk())
 	}
-	done := make(chan error, 1)
-	s.Report.done = func(_ []string, err error) { done <- err }
+	var err error
+	s.Report.done = func(_ []string, e error) { err = e }
 	s.Report.Export()
-	if err := <-done; err == nil || !strings.Contains(s.Report.result.Text, "export failed") {
+	s.Wait()
+	if err == nil || !strings.Contains(s.Report.result.Text, "export failed") {
 		t.Errorf("export of the test inspection: err %v, text %q", err, s.Report.result.Text)
 	}
 	capture(t, w, "report")

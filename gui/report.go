@@ -5,6 +5,7 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
+	"sync"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/container"
@@ -30,13 +31,16 @@ type ReportDesk struct {
 	export  *widget.Button
 	result  *widget.Label
 	status  func(string, bool)
+	// post runs its argument on the UI thread (fyne.Do by default).
+	post func(func())
+	jobs sync.WaitGroup
 	// done is called (on the UI thread) after an export finished; for tests.
 	done func(paths []string, err error)
 }
 
 // NewReportDesk builds the report desk; dir is the suggested output folder.
 func NewReportDesk(src viewmodel.Source, win fyne.Window, dir string, status func(string, bool)) *ReportDesk {
-	d := &ReportDesk{src: src, win: win, status: status}
+	d := &ReportDesk{src: src, win: win, status: status, post: fyne.Do}
 	d.dir = widget.NewEntry()
 	d.dir.SetText(dir)
 	d.formats = widget.NewCheckGroup([]string{"pdf", "csv", "json"}, nil)
@@ -88,13 +92,15 @@ func (d *ReportDesk) Export() {
 	}
 	d.export.Disable()
 	d.result.SetText("writing the report…")
+	d.jobs.Add(1)
 	go func() {
+		defer d.jobs.Done()
 		var paths []string
 		err := os.MkdirAll(dir, 0o755)
 		if err == nil {
 			paths, err = d.src.Export(context.Background(), dir, formats)
 		}
-		fyne.Do(func() {
+		d.post(func() {
 			d.export.Enable()
 			if err != nil {
 				d.result.SetText("export failed: " + err.Error())

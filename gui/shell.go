@@ -44,6 +44,11 @@ type Options struct {
 	// Model is the coil model for the explorer and its starting point.
 	Model       viewmodel.Model
 	ModelParams viewmodel.ModelParams
+	// Post runs a function on the UI thread; nil uses fyne.Do. Tests pass
+	// a queue and Drain, which runs what was queued and reports whether
+	// anything ran, so that results are applied on the test's goroutine.
+	Post  func(func())
+	Drain func() bool
 }
 
 // Shell is the whole workstation window: the desk rail, the desks, the
@@ -62,6 +67,7 @@ type Shell struct {
 	Report      *ReportDesk
 
 	src     viewmodel.Source
+	drain   func() bool
 	desk    string
 	rail    map[string]*widget.Button
 	stack   *fyne.Container
@@ -77,8 +83,11 @@ func NewShell(win fyne.Window, src viewmodel.Source, opt Options) *Shell {
 	if a := fyne.CurrentApp(); a != nil {
 		a.Settings().SetTheme(th)
 	}
-	s := &Shell{Win: win, Theme: th, src: src, rail: map[string]*widget.Button{}, desks: map[string]fyne.CanvasObject{}}
-	post := func(f func()) { fyne.Do(f) }
+	s := &Shell{Win: win, Theme: th, src: src, drain: opt.Drain, rail: map[string]*widget.Button{}, desks: map[string]fyne.CanvasObject{}}
+	post := opt.Post
+	if post == nil {
+		post = fyne.Do
+	}
 	s.status = widget.NewLabel("")
 	s.status.Truncation = fyne.TextTruncateEllipsis
 	s.WS = viewmodel.NewWorkstation(src, post)
@@ -86,6 +95,7 @@ func NewShell(win fyne.Window, src viewmodel.Source, opt Options) *Shell {
 	s.Review = NewReview(s.WS, th, win, s.setStatus)
 	s.Calibration = NewCalibrationDesk(s.Cals, th, win, s.setStatus)
 	s.Report = NewReportDesk(src, win, opt.ReportDir, s.setStatus)
+	s.Report.post = post
 	s.desks[DeskReview] = s.Review.Content
 	s.desks[DeskCalibration] = s.Calibration.Content
 	s.desks[DeskReport] = s.Report.Content
@@ -151,13 +161,18 @@ func (s *Shell) Close() {
 	}
 }
 
-// Wait blocks until all background work started so far has been applied.
+// Wait blocks until all background work has finished and its results
+// have been applied (including work that applying results started).
 func (s *Shell) Wait() {
-	for range 3 { // results may start further work
+	for {
 		s.WS.Wait()
 		s.Cals.Wait()
+		s.Report.jobs.Wait()
 		if s.Explorer != nil {
 			s.Explorer.Wait()
+		}
+		if s.drain == nil || !s.drain() {
+			return
 		}
 	}
 }

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"flag"
 	"os"
 	"path/filepath"
 	"strings"
@@ -38,6 +39,53 @@ func TestGUICommandLine(t *testing.T) {
 			if code != tc.code || !strings.Contains(out, tc.stdout) || !strings.Contains(errs, tc.stderr) {
 				t.Errorf("whorl %q = %d, stdout %q, stderr %q; want %d, stdout containing %q, stderr containing %q",
 					tc.args, code, out, errs, tc.code, tc.stdout, tc.stderr)
+			}
+		})
+	}
+}
+
+func TestGUIIdentityFromEnvironment(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name, user, role string
+		signIn           bool
+		wantErr          string
+	}{
+		{"both given", "Rosa Quill", "level2", false, ""},
+		{"role in capitals", "Tamsin Oakes", "LEVEL3", false, ""},
+		{"no user: sign in", "", "level2", true, ""},
+		{"no role: sign in", "Rosa Quill", "", true, ""},
+		{"unknown role", "Rosa Quill", "boss", false, `WHORL_ROLE: role "boss": expected level1, level2, level3 or qa`},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			t.Parallel()
+			e := &env{getenv: func(k string) string {
+				switch k {
+				case "WHORL_USER":
+					return tc.user
+				case "WHORL_ROLE":
+					return tc.role
+				}
+				return ""
+			}}
+			c := registry["gui"]
+			fs := flag.NewFlagSet("gui", flag.ContinueOnError)
+			c.setFlags(fs)
+			cfg, err := parseGUI(e, fs, nil)
+			if tc.wantErr != "" {
+				if err == nil || !strings.Contains(err.Error(), tc.wantErr) || exitCode(err) != exitUsage {
+					t.Fatalf("err %v (exit %d), want usage error containing %q", err, exitCode(err), tc.wantErr)
+				}
+				return
+			}
+			if err != nil {
+				t.Fatal(err)
+			}
+			if cfg.signIn != tc.signIn || (!tc.signIn && cfg.actor.Name != tc.user) {
+				t.Errorf("config %+v, want sign-in %v and name %q", cfg, tc.signIn, tc.user)
+			}
+			if !filepath.IsAbs(cfg.reportDir) || cfg.demoDir == "" {
+				t.Errorf("report dir %q, demo dir %q", cfg.reportDir, cfg.demoDir)
 			}
 		})
 	}
