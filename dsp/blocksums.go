@@ -1,8 +1,7 @@
-//go:build !amd64.v3
-
 package dsp
 
-// blockSums returns Σ_p c[p][i]·x[p] for the eight tap columns i. It is a
+// blockSums returns Σ_p c[p][i]·x[p] for the eight tap columns i (the
+// first stage for blocks shorter than 8 samples, see momentMatrix). It is a
 // separate function so that its sums, the sample and the loop index have
 // the registers to themselves (inlined into stage1, the compiler spilled
 // them to the stack on every sample). len(c) must equal len(x).
