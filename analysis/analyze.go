@@ -508,10 +508,15 @@ func (a *Analyzer) classify(ind *Indication, cc *calibrate.ChannelCal, zoned boo
 	}
 	inBand := ind.PhaseDeg >= cr.FlawPhaseDeg[0] && ind.PhaseDeg <= cr.FlawPhaseDeg[1]
 	straight := ind.CrossVpp <= cr.GeometryMaxCross*ind.Vpp
+	zoneBand, inZoneBand := false, false
+	if lo, hi, ok := zoneFlawBand(cc, cr.ZonePhaseMarginDeg); ok && zoned && isMix {
+		zoneBand = true
+		inZoneBand = calibrate.WrapDeg(ind.PhaseDeg-lo) <= hi-lo
+	}
 	switch {
 	case zoned && !isMix:
 		ind.Class, ind.Rule = ClassLandmark, RuleLandmarkZone
-	case zoned && isMix && !inBand && straight && ind.Vpp <= cr.ResidueMaxVpp:
+	case zoned && isMix && ind.Vpp <= cr.ResidueMaxVpp && ((!inBand && straight) || (zoneBand && !inZoneBand)):
 		ind.Class, ind.Rule = ClassLandmark, RuleResidue
 	case h <= cr.GeometryBandDeg && hr <= cr.GeometryBandDeg && ind.Vpp >= cr.GeometryMinVpp && straight:
 		ind.Class, ind.Rule = ClassGeometry, RuleGeometry
@@ -519,6 +524,8 @@ func (a *Analyzer) classify(ind *Indication, cc *calibrate.ChannelCal, zoned boo
 		ind.Class, ind.Rule = ClassReview, RuleComposite
 	case !zoned && ind.LandmarkRatio >= cr.DepositRatio:
 		ind.Class, ind.Rule = ClassDeposit, RuleDeposit
+	case inZoneBand && cr.ZoneMinSNR > 0 && ind.SNR >= cr.ZoneMinSNR && ind.SNR < cr.MinSNR:
+		ind.Class, ind.Rule = ClassReview, RuleZoneWeak
 	case ind.SNR < cr.MinSNR:
 		ind.Class, ind.Rule = ClassNoise, RuleNoise
 	case inBand:
@@ -541,12 +548,35 @@ func (a *Analyzer) classify(ind *Indication, cc *calibrate.ChannelCal, zoned boo
 		// reported only if the procedure asks for it.
 		if d <= curveMinDepth(cv) && !a.proc.ReportBelowRange {
 			ind.Reportable = false
+			if inZoneBand {
+				// At a landmark the mix's shallow end is a few degrees
+				// wide and the residue pulls the phase: "shallower than
+				// the shallowest reference" is not established there.
+				ind.Class, ind.Rule = ClassReview, RuleZoneShallow
+				ind.DepthPct, ind.UncertaintyPct, ind.Curve = nil, 0, ""
+				ind.Reportable = true
+			}
 		}
 		return
 	}
 	if d < a.proc.ReportingPct {
 		ind.Reportable = false
 	}
+}
+
+// zoneFlawBand returns the zone flaw band of a channel: its sizing
+// curve's calibrated phase range [XMin, XMax] widened by marginDeg on
+// either side. ok is false when the margin is zero (no zone band) or the
+// channel has no sizing curve on phase.
+func zoneFlawBand(cc *calibrate.ChannelCal, marginDeg float64) (lo, hi float64, ok bool) {
+	if marginDeg <= 0 || cc.SizingCurve == "" {
+		return 0, 0, false
+	}
+	cv := cc.Curve(cc.SizingCurve)
+	if cv == nil || cv.Variable == calibrate.VarAmplitude || !(cv.XMax > cv.XMin) {
+		return 0, 0, false
+	}
+	return cv.XMin - marginDeg, cv.XMax + marginDeg, true
 }
 
 // depositRatio returns the landmark channel's calibrated Vpp in the

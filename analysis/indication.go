@@ -20,6 +20,8 @@ const (
 	RuleGeometry     = "geometry"
 	RuleComposite    = "geometry-composite"
 	RuleDeposit      = "deposit"
+	RuleZoneWeak     = "zone-weak"
+	RuleZoneShallow  = "zone-shallow"
 	RuleNoise        = "noise"
 	RuleFlawPhase    = "flaw-phase"
 	RuleUnresolved   = "unresolved"

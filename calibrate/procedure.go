@@ -266,6 +266,17 @@ type ClassRules struct {
 	// at most GeometryMaxCross × Vpp) signal of at most this Vpp outside
 	// the flaw phase band is the landmark's mix residue (0: no such rule).
 	ResidueMaxVpp float64 `json:"residue_max_vpp,omitempty"`
+	// ZonePhaseMarginDeg widens the sizing curve's calibrated phase range
+	// [XMin, XMax] on either side into the zone flaw band of a mix: in a
+	// landmark zone, a mix signal of at most ResidueMaxVpp whose phase
+	// lies outside that band is the landmark's mix residue, and one inside
+	// it is judged by ZoneMinSNR (0: neither rule; see the analysis
+	// package).
+	ZonePhaseMarginDeg float64 `json:"zone_phase_margin_deg,omitempty"`
+	// ZoneMinSNR: in a landmark zone, a mix signal inside the zone flaw
+	// band with S/N from ZoneMinSNR up to MinSNR goes to an analyst
+	// instead of being dismissed as noise (0: no such rule).
+	ZoneMinSNR float64 `json:"zone_min_snr,omitempty"`
 	// DepositRatio: a signal whose landmark-channel Vpp exceeds this
 	// multiple of its prime Vpp, away from a landmark, is a deposit.
 	DepositRatio float64 `json:"deposit_ratio"`
@@ -607,6 +618,10 @@ func (p *Procedure) validate(file string) error {
 		return bad("classification.geometry_max_cross", "%v: expected a fraction in (0, 1]", c.GeometryMaxCross)
 	case !finite(c.ResidueMaxVpp) || c.ResidueMaxVpp < 0:
 		return bad("classification.residue_max_vpp", "%v: expected a non-negative voltage", c.ResidueMaxVpp)
+	case !finite(c.ZonePhaseMarginDeg) || c.ZonePhaseMarginDeg < 0 || c.ZonePhaseMarginDeg >= 90:
+		return bad("classification.zone_phase_margin_deg", "%v: expected 0 (no zone band) to 90 degrees", c.ZonePhaseMarginDeg)
+	case !finite(c.ZoneMinSNR) || c.ZoneMinSNR < 0 || c.ZoneMinSNR > c.MinSNR:
+		return bad("classification.zone_min_snr", "%v: expected 0 (no zone rule) up to min_snr %v", c.ZoneMinSNR, c.MinSNR)
 	case !finite(c.DepositRatio) || c.DepositRatio <= 0:
 		return bad("classification.deposit_ratio", "%v: expected a positive ratio", c.DepositRatio)
 	case !finite(c.MinSNR) || c.MinSNR < 0:
