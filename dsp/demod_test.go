@@ -297,3 +297,26 @@ func TestStage1MomentsMatchTaps(t *testing.T) {
 		}
 	}
 }
+
+// TestDemodulateShortBlocks covers first stages of fewer than 8 samples
+// per block (the direct complex-tap form) and no first stage at all.
+func TestDemodulateShortBlocks(t *testing.T) {
+	t.Parallel()
+	tones := []dsptest.Tone{{FreqHz: 400e3, AmplitudeV: 1.3, PhaseRad: 0.7}, {FreqHz: 100e3, AmplitudeV: 0.2, PhaseRad: -2.5}}
+	v := dsptest.MultiTone(50000, 1e6, tones)
+	for _, rate := range []float64{20e3, 100e3} { // d1 = 5 and d1 = 1
+		rec := &acquire.RawRecord{Coil: "abs", SampleRateHz: 1e6, ExcitationHz: []float64{400e3, 100e3}, VoltageV: v}
+		scan, rep, err := Demodulate(rec, DemodOptions{OutputRateHz: rate, LowpassHz: rate / 10})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for k, tn := range tones {
+			for i, z := range scan.Channels[k].Samples {
+				// Requirement: 1e-4 relative amplitude and 0.01°.
+				if math.Abs(cmplx.Abs(z)/tn.AmplitudeV-1) > 1e-4 || math.Abs(phaseDiffDeg(z, tn.Phasor())) > 0.01 {
+					t.Fatalf("rate %v (stage 1: %d) %s sample %d: %v, want %v", rate, rep.Stage1, scan.Channels[k].Name, i, z, tn.Phasor())
+				}
+			}
+		}
+	}
+}
