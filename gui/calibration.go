@@ -2,6 +2,7 @@ package gui
 
 import (
 	"fmt"
+	"math"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/container"
@@ -38,10 +39,14 @@ type CalibrationDesk struct {
 
 	pick     *widget.Select
 	state    *widget.Label
+	standard *widget.Label
 	strip    *StripChart
 	stripSrc *calStrip
 	curves   *fyne.Container
-	flaws    *widget.Label
+	flaws    *widget.List
+	flawHead *widget.Label
+	flawRows []string
+	located  []viewmodel.LocatedFlaw
 	checks   *widget.Label
 	events   *widget.Label
 	reason   *widget.Entry
@@ -71,6 +76,8 @@ func (d *CalibrationDesk) build() {
 	})
 	d.state = widget.NewLabel("")
 	d.state.TextStyle = fyne.TextStyle{Bold: true}
+	d.standard = widget.NewLabel("")
+	d.standard.Truncation = fyne.TextTruncateEllipsis
 	d.stripSrc = &calStrip{}
 	d.strip = NewStripChart(d.stripSrc, d.th)
 	d.strip.OnWindow = func(from, to float64) {
@@ -86,7 +93,17 @@ func (d *CalibrationDesk) build() {
 		l.TextStyle = fyne.TextStyle{Monospace: true}
 		return l
 	}
-	d.flaws, d.checks, d.events = mono(), mono(), mono()
+	d.checks, d.events = mono(), mono()
+	d.flawHead = mono()
+	d.flaws = widget.NewList(func() int { return len(d.flawRows) },
+		func() fyne.CanvasObject {
+			l := widget.NewLabel("")
+			l.TextStyle = fyne.TextStyle{Monospace: true}
+			l.Truncation = fyne.TextTruncateEllipsis
+			return l
+		},
+		func(i widget.ListItemID, o fyne.CanvasObject) { o.(*widget.Label).SetText(d.flawRows[i]) })
+	d.flaws.OnSelected = func(i widget.ListItemID) { d.showFlaw(i) }
 	d.reason = widget.NewEntry()
 	d.reason.SetPlaceHolder("reason for approval (recorded)")
 	d.approve = widget.NewButton("approve as Level III", func() { d.cv.Approve(d.reason.Text) })
@@ -94,7 +111,7 @@ func (d *CalibrationDesk) build() {
 	d.message = widget.NewLabel("")
 	d.message.Wrapping = fyne.TextWrapWord
 
-	top := container.NewBorder(nil, nil, widget.NewLabel("calibration"), container.NewHBox(d.state), d.pick)
+	top := container.NewVBox(container.NewBorder(nil, nil, widget.NewLabel("calibration"), container.NewHBox(d.state), d.pick), d.standard)
 	approveRow := container.NewBorder(nil, nil, nil, d.approve, d.reason)
 	flawHead := widget.NewLabel("located reference flaws")
 	flawHead.TextStyle = fyne.TextStyle{Bold: true}
@@ -103,7 +120,7 @@ func (d *CalibrationDesk) build() {
 	evHead := widget.NewLabel("record")
 	evHead.TextStyle = fyne.TextStyle{Bold: true}
 	lower := container.NewHSplit(
-		container.NewBorder(flawHead, nil, nil, nil, container.NewScroll(d.flaws)),
+		container.NewBorder(container.NewVBox(flawHead, d.flawHead), nil, nil, nil, d.flaws),
 		container.NewBorder(checkHead, nil, nil, nil, container.NewScroll(container.NewVBox(d.checks, evHead, d.events))),
 	)
 	lower.SetOffset(0.55)
@@ -161,6 +178,12 @@ func (d *CalibrationDesk) refresh() {
 }
 
 func (d *CalibrationDesk) showDetail(det *viewmodel.CalibrationDetail) {
+	std := det.Standard
+	if std.Serial != "" {
+		d.standard.SetText(fmt.Sprintf("reference standard %s · %s · certificate %s · scan channel shown: %s", std.Serial, std.Material, orText(std.CertificateID, "—"), det.Channel))
+	} else {
+		d.standard.SetText("reference standard not in the record · scan channel shown: " + det.Channel)
+	}
 	// Scan with located flaws as markers.
 	if det.Scan != nil {
 		t := &viewmodel.Tube{ID: det.ID, Scan: det.Scan}
@@ -207,15 +230,17 @@ func (d *CalibrationDesk) showDetail(det *viewmodel.CalibrationDetail) {
 	}
 	d.curves.Refresh()
 	// Located flaws.
-	txt := fmt.Sprintf("%-10s %-17s %6s %9s %8s %7s  %s\n", "flaw", "type", "%TW", "at / mm", "Vpp / V", "phase", "(prime channel)")
+	d.flawHead.SetText(fmt.Sprintf("%-12s %-19s %5s %8s %8s %7s", "flaw", "type", "%TW", "at / mm", "Vpp / V", "phase") + "  (prime channel; select to show)")
+	d.located, d.flawRows = det.Located, d.flawRows[:0]
 	for _, f := range det.Located {
 		if !f.Found {
-			txt += fmt.Sprintf("%-10s %-17s %6.0f %9s %8s %7s  not found: %s\n", f.FlawID, f.Type, f.DepthPct, "—", "—", "—", f.Note)
+			d.flawRows = append(d.flawRows, fmt.Sprintf("%-12s %-19s %5.0f %8s %8s %7s  not found: %s", f.FlawID, f.Type, f.DepthPct, "—", "—", "—", f.Note))
 			continue
 		}
-		txt += fmt.Sprintf("%-10s %-17s %6.0f %9.1f %8s %7s  %s\n", f.FlawID, f.Type, f.DepthPct, f.PositionM*1000, orDash("%.3f", f.VppV), orDash("%.1f°", f.PhaseDeg), f.Note)
+		d.flawRows = append(d.flawRows, fmt.Sprintf("%-12s %-19s %5.0f %8.1f %8s %7s  %s", f.FlawID, f.Type, f.DepthPct, f.PositionM*1000, orDash("%.3f", f.VppV), orDash("%.1f°", f.PhaseDeg), f.Note))
 	}
-	d.flaws.SetText(txt)
+	d.flaws.UnselectAll()
+	d.flaws.Refresh()
 	ck := ""
 	for _, c := range det.Checks {
 		mark := "pass"
@@ -233,4 +258,22 @@ func (d *CalibrationDesk) showDetail(det *viewmodel.CalibrationDetail) {
 		ev += fmt.Sprintf("%s  %s (%s)  %s  %s\n", e.At, e.Actor, e.Role, e.Action, e.Reason)
 	}
 	d.events.SetText(orText(ev, "no events"))
+}
+
+// showFlaw puts the analysis window of the calibration scan on located
+// flaw i and zooms the chart to it.
+func (d *CalibrationDesk) showFlaw(i int) {
+	c := d.stripSrc.chart
+	if c == nil || i < 0 || i >= len(d.located) || !d.located[i].Found {
+		return
+	}
+	f := d.located[i]
+	if f.Window.Len() > 0 {
+		c.SetWindowSamples(f.Window)
+	} else {
+		c.CentreWindow(f.PositionM)
+	}
+	c.Fit()
+	c.Zoom(4, math.NaN())
+	d.strip.Refresh()
 }

@@ -231,6 +231,11 @@ func TestCalibrationApprovalByRole(t *testing.T) {
 			if s.Desk() != DeskCalibration {
 				t.Fatalf("F3 shows %q", s.Desk())
 			}
+			// Selecting a located flaw puts the window on it.
+			s.Calibration.flaws.Select(1)
+			if c := s.Calibration.stripSrc.chart; c == nil || c.WinFrom > 1.13 || c.WinTo < 1.13 {
+				t.Errorf("window after selecting flaw F2 (at 1.13 m): %+v", c)
+			}
 			s.Calibration.reason.SetText("curve checked")
 			test.Tap(s.Calibration.approve)
 			s.Wait()
