@@ -158,6 +158,9 @@ func printSummary(w io.Writer, s *workflow.Summary) {
 	if len(classes) > 0 {
 		fmt.Fprintf(w, " (%s)", strings.Join(classes, ", "))
 	}
+	if s.Landmarks > 0 {
+		fmt.Fprintf(w, "; %d landmarks found (supports, tubesheets)", s.Landmarks)
+	}
 	fmt.Fprintf(w, "\nOver the reporting threshold: %d indications in %d tubes", s.Reportable, len(s.OverThreshold))
 	if len(s.OverThreshold) > 0 {
 		fmt.Fprintf(w, ": %s", abbreviate(s.OverThreshold, 12))

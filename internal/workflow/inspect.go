@@ -93,6 +93,7 @@ type Summary struct {
 	Skipped       int            `json:"already_recorded"` // recorded by an earlier run
 	NotExamined   []NotExamined  `json:"not_examined"`
 	Indications   int            `json:"indications"`
+	Landmarks     int            `json:"landmarks_found"` // by this run; not recorded as indications
 	ByClass       map[string]int `json:"indications_by_class"`
 	Reportable    int            `json:"reportable"` // flaw-like at or over the reporting threshold, valid groups
 	OverThreshold []string       `json:"components_over_threshold"`
@@ -645,8 +646,15 @@ func record(ctx context.Context, analyst *store.Session, known map[string]store.
 		scans[r.file] = r.scan
 		ids[r.scan.ID] = r.file
 	}
+	// Landmarks (supports, tubesheets) found by the analysis are the
+	// reference points of the indications' locations, not indications:
+	// they are counted, not recorded.
 	recs := make([]store.Indication, 0, len(r.inds))
 	for i := range r.inds {
+		if r.inds[i].Class == analysis.ClassLandmark {
+			sum.Landmarks++
+			continue
+		}
 		recs = append(recs, toStore(&r.inds[i]))
 	}
 	if _, err := analyst.AddIndications(ctx, scans[r.file].ID, recs); err != nil {
