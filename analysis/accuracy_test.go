@@ -80,15 +80,12 @@ func analyseInspection(t *testing.T, cfg synth.Config, procPath string) (analysi
 // on each group's opening standard scan, analyse every tube) against the
 // generator's ground truth, for the demo inspection and for the
 // differently configured alternate one (another tube size, alloy and
-// frequency set). Targets (the acceptance targets of this project):
-// sizing mean absolute error at most 5 %TW for OD flaws 20–100 %TW, at most
-// one false call per 10 tubes, no support signal reported as a flaw, and
-// every flaw of 40 %TW or deeper found. The detection target is not met
-// in full: an axial OD crack of 42 %TW just outside a support (one in each
-// data set), the smallest flaw volume next to the largest residue, stays
-// below the support-mix threshold; the test holds the figures reached so a
-// regression fails (all flaws of 45 %TW or deeper found, at least 95 % of
-// those of 40 %TW or deeper), and the remaining misses are printed.
+// frequency set). It asserts the acceptance targets of this project
+// exactly: every flaw of 40 %TW or deeper found (including the axial OD
+// cracks of 42 %TW just outside a support, found on the support mix by the
+// zone rules), sizing mean absolute error at most 5 %TW for OD flaws
+// 20–100 %TW, at most one false call per 10 tubes, and no support signal
+// reported as a flaw.
 func TestAccuracyOnGeneratedInspections(t *testing.T) {
 	if testing.Short() {
 		t.Skip("analyses two whole generated inspections")
@@ -106,9 +103,6 @@ func TestAccuracyOnGeneratedInspections(t *testing.T) {
 			acc, _ := analyseInspection(t, c.cfg, c.proc)
 			t.Logf("%s: found %d of %d flaws ≥ %g %%TW; sizing MAE %.2f %%TW over %d of %d OD flaws 20–100 %%TW; %d false calls (%.2f per 10 tubes); %d at supports",
 				c.name, acc.Detected, acc.ToDetect, acc.DetectMinPct, acc.MAEPct, acc.Sized, acc.ToSize, acc.FalseCalls, acc.FalseCallsPer10, acc.SupportCalls)
-			for _, m := range acc.Missed {
-				t.Logf("  missed %s %s at %.3f m, %.0f %%TW", m.Component, m.Kind, m.PositionM, m.DepthPct)
-			}
 			if !acc.SizingOK {
 				t.Errorf("sizing MAE %.2f %%TW over %d flaws, target ≤ 5", acc.MAEPct, acc.Sized)
 			}
@@ -119,12 +113,10 @@ func TestAccuracyOnGeneratedInspections(t *testing.T) {
 				t.Errorf("%d support signals reported as flaws, target 0", acc.SupportCalls)
 			}
 			for _, m := range acc.Missed {
-				if m.DepthPct >= 45 {
-					t.Errorf("missed %s %s at %.3f m, %.0f %%TW (all flaws ≥ 45 %%TW must be found)", m.Component, m.Kind, m.PositionM, m.DepthPct)
-				}
+				t.Errorf("missed %s %s at %.3f m, %.0f %%TW (every flaw ≥ %g %%TW must be found)", m.Component, m.Kind, m.PositionM, m.DepthPct, acc.DetectMinPct)
 			}
-			if float64(acc.Detected) < 0.95*float64(acc.ToDetect) {
-				t.Errorf("found %d of %d flaws ≥ 40 %%TW, below 95 %%", acc.Detected, acc.ToDetect)
+			if !acc.DetectOK || acc.Detected != acc.ToDetect {
+				t.Errorf("found %d of %d flaws ≥ %g %%TW, want all", acc.Detected, acc.ToDetect, acc.DetectMinPct)
 			}
 			if acc.Sized < acc.ToSize/2 {
 				t.Errorf("sized %d of %d OD flaws 20–100 %%TW: too few for the MAE to mean much", acc.Sized, acc.ToSize)

@@ -92,6 +92,9 @@ func TestParseProcedureErrors(t *testing.T) {
 		}, "contains the origin"},
 		{"landmark fraction", func(m map[string]any) { obj(m, "landmarks")["fraction"] = 1.5 }, "landmarks.fraction: 1.5"},
 		{"flaw band reversed", func(m map[string]any) { obj(m, "classification")["flaw_phase_deg"] = []any{170, 8} }, "classification.flaw_phase_deg"},
+		{"zone margin negative", func(m map[string]any) { obj(m, "classification")["zone_phase_margin_deg"] = -1 }, "classification.zone_phase_margin_deg: -1"},
+		{"zone margin a right angle", func(m map[string]any) { obj(m, "classification")["zone_phase_margin_deg"] = 90 }, "classification.zone_phase_margin_deg: 90"},
+		{"zone S/N above min_snr", func(m map[string]any) { obj(m, "classification")["zone_min_snr"] = 4 }, "classification.zone_min_snr: 4: expected 0 (no zone rule) up to min_snr 3"},
 		{"reporting over 100", func(m map[string]any) { m["reporting_threshold_pct"] = 120 }, "reporting_threshold_pct: 120"},
 		{"negative phase tolerance", func(m map[string]any) { obj(m, "check")["phase_tol_deg"] = -5 }, "check.phase_tol_deg: -5"},
 		{"conductivity one block", func(m map[string]any) {
