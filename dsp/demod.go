@@ -725,16 +725,19 @@ func (dm *demodulator) run(v []float64, freqsHz []float64, fsHz float64) ([][]co
 // for every frequency after the first) and added to the splineOrder
 // overlapping outputs it belongs to.
 //
-// The carrier is split as e^{−jω(b·d1+p)} = e^{−jωb·d1}·e^{−jωp}: the
-// within-block factor is folded into complex taps T_k[p] = t_k[p]·e^{−jωp}
-// (computed once per frequency), so the inner loop is four complex-by-real
-// multiply-adds per sample; each block's partial sums are then turned by
-// the exact block phase e^{−jωb·d1} (math.Sincos, no recurrence, so no
-// phase error accumulates however long the record).
+// The carrier is split as e^{−jω(b·d1+p)} = e^{−jωb·d1}·e^{−jωp}. Each
+// block's four segment sums S_k = Σ_p t_k[p]·e^{−jωp}·v_p are formed either
+// from four running sums of the mixed samples (blockMoments and
+// momentMatrix: ten operations per sample) or, for blocks shorter than 8
+// samples, from complex taps T_k[p] = t_k[p]·e^{−jωp} (blockSums). The
+// block's sums are then turned by the block phase e^{−jωb·d1}, advanced by
+// one complex multiplication per block and recomputed exactly with
+// math.Sincos every 64 blocks, so no phase error accumulates however long
+// the record.
 //
 // It returns the index of the first non-finite input sample, or −1: a NaN
-// or infinity makes the block's first sum non-finite, because the first
-// tap column is positive at every phase.
+// or infinity makes the block's first sum non-finite (the first running
+// sum, or the first tap column, which is positive at every phase).
 func (dm *demodulator) stage1(us [][]complex128, v []float64, freqsHz []float64, fsHz float64) int {
 	d1 := dm.d1
 	nf := len(freqsHz)
