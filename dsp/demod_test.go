@@ -191,6 +191,8 @@ func TestDemodulateErrors(t *testing.T) {
 		want string
 	}{
 		{"nan sample", func(r *acquire.RawRecord) { r.VoltageV[17] = math.NaN() }, DemodOptions{}, "voltage sample 17"},
+		{"nan sample, running sums", func(r *acquire.RawRecord) { r.VoltageV[40017] = math.NaN() }, DemodOptions{OutputRateHz: 500}, "voltage sample 40017"},
+		{"infinite sample, running sums", func(r *acquire.RawRecord) { r.VoltageV[3] = math.Inf(-1) }, DemodOptions{OutputRateHz: 500}, "voltage sample 3"},
 		{"excitation above nyquist", func(r *acquire.RawRecord) { r.ExcitationHz[0] = 6e4 }, DemodOptions{}, "excitation 60000 Hz"},
 		{"no samples", func(r *acquire.RawRecord) { r.VoltageV = nil }, DemodOptions{}, "no voltage samples"},
 		{"reference length", func(r *acquire.RawRecord) { r.ReferenceV = make([]float64, 3) }, DemodOptions{}, "3 reference samples"},
