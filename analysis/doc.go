@@ -28,10 +28,11 @@
 //	                              landmark zone: the landmark's own signal
 //	                              (flaws there are judged on the mix)
 //	mix-residue   landmark        a mix channel, window inside a landmark
-//	                              zone, phase outside FlawPhaseDeg, a straight
-//	                              trace (cross extent at most GeometryMaxCross
-//	                              × Vpp) of at most ResidueMaxVpp: what the mix
-//	                              leaves of the landmark
+//	                              zone, Vpp at most ResidueMaxVpp, and either
+//	                              phase outside the zone flaw band or phase
+//	                              outside FlawPhaseDeg with a straight trace
+//	                              (cross extent at most GeometryMaxCross ×
+//	                              Vpp): what the mix leaves of the landmark
 //	geometry      geometry        phase within GeometryBandDeg of the
 //	                              channel's lift-off axis (horizontal unless
 //	                              the set-up measures it; probe motion,
@@ -47,10 +48,26 @@
 //	deposit       deposit         outside landmark zones, the landmark
 //	                              channel's calibrated Vpp in the window is
 //	                              at least DepositRatio × the indication's Vpp
+//	zone-weak     analyst-review  a mix channel in a landmark zone, phase
+//	                              inside the zone flaw band, S/N from
+//	                              ZoneMinSNR up to MinSNR: a small flaw at a
+//	                              support, too weak to be sized
 //	noise         noise           S/N below MinSNR
 //	flaw-phase    flaw-like       phase inside FlawPhaseDeg
 //	unresolved    analyst-review  none of the above: not confidently
 //	                              classified, an analyst decides
+//	zone-shallow  analyst-review  after sizing: a flaw-like mix signal in a
+//	                              landmark zone, inside the zone flaw band
+//	                              but past the curve's shallow end; kept
+//	                              reportable (OutOfRange set), not sized
+//
+// The zone flaw band of a mix is its sizing curve's calibrated phase range
+// [XMin, XMax] widened by ZonePhaseMarginDeg on either side (no band when
+// the margin is zero or the sizing curve is not on phase). What a mix
+// leaves of a support lies outside the band (near the lift-off axis on
+// the demo data), while wall loss reads inside it; at a support a small flaw's mix signal
+// is comparable with that residue in amplitude, so there phase decides
+// (docs/calibration.md).
 //
 // Only flaw-like indications are sized; the thresholds come from the
 // procedure's classification block, never from code.
