@@ -138,30 +138,27 @@ Examples:
 	})
 }
 
-func requireFlag(fs *flag.FlagSet, name string) (string, error) {
-	v := flagString(fs, name)
-	if v == "" {
-		return "", usagef("--%s is required", name)
-	}
-	return v, nil
-}
-
-func oneInput(args []string) (string, error) {
+// inputs returns the command's one input file and the values of its
+// required string flags, in the order named.
+func inputs(fs *flag.FlagSet, args []string, required ...string) (string, []string, error) {
 	if len(args) != 1 {
-		return "", usagef("expected one input file, got %d", len(args))
+		return "", nil, usagef("expected one input file, got %d", len(args))
 	}
-	return args[0], nil
+	vals := make([]string, len(required))
+	for i, name := range required {
+		if vals[i] = flagString(fs, name); vals[i] == "" {
+			return "", nil, usagef("--%s is required", name)
+		}
+	}
+	return args[0], vals, nil
 }
 
 func runDemod(ctx context.Context, e *env, fs *flag.FlagSet, args []string) error {
-	in, err := oneInput(args)
+	in, req, err := inputs(fs, args, "o")
 	if err != nil {
 		return err
 	}
-	out, err := requireFlag(fs, "o")
-	if err != nil {
-		return err
-	}
+	out := req[0]
 	var opt dsp.DemodOptions
 	if opt.OutputRateHz, _, err = flagQuantity(fs, "rate", units.Frequency); err != nil {
 		return err
@@ -220,18 +217,11 @@ func runDemod(ctx context.Context, e *env, fs *flag.FlagSet, args []string) erro
 }
 
 func runProcess(ctx context.Context, e *env, fs *flag.FlagSet, args []string) error {
-	in, err := oneInput(args)
+	in, req, err := inputs(fs, args, "chain", "o")
 	if err != nil {
 		return err
 	}
-	cp, err := requireFlag(fs, "chain")
-	if err != nil {
-		return err
-	}
-	out, err := requireFlag(fs, "o")
-	if err != nil {
-		return err
-	}
+	cp, out := req[0], req[1]
 	chain, err := dsp.LoadChain(cp)
 	if err != nil {
 		return dataError(err)
@@ -351,22 +341,11 @@ func printMix(w io.Writer, m *dsp.Mix) {
 }
 
 func runMixTrain(ctx context.Context, e *env, fs *flag.FlagSet, args []string) error {
-	in, err := oneInput(args)
+	in, req, err := inputs(fs, args, "primary", "window", "o")
 	if err != nil {
 		return err
 	}
-	primary, err := requireFlag(fs, "primary")
-	if err != nil {
-		return err
-	}
-	out, err := requireFlag(fs, "o")
-	if err != nil {
-		return err
-	}
-	spec, err := requireFlag(fs, "window")
-	if err != nil {
-		return err
-	}
+	primary, spec, out := req[0], req[1], req[2]
 	with := flagStrings(fs, "with")
 	if len(with) < 1 || len(with) > 2 {
 		return usagef("--with: expected one or two other channels, got %d", len(with))
@@ -416,18 +395,11 @@ func runMixTrain(ctx context.Context, e *env, fs *flag.FlagSet, args []string) e
 }
 
 func runMixApply(ctx context.Context, e *env, fs *flag.FlagSet, args []string) error {
-	in, err := oneInput(args)
+	in, req, err := inputs(fs, args, "mix", "o")
 	if err != nil {
 		return err
 	}
-	mp, err := requireFlag(fs, "mix")
-	if err != nil {
-		return err
-	}
-	out, err := requireFlag(fs, "o")
-	if err != nil {
-		return err
-	}
+	mp, out := req[0], req[1]
 	mb, err := os.ReadFile(mp)
 	if err != nil {
 		return dataError(err)
@@ -477,18 +449,11 @@ func runMixApply(ctx context.Context, e *env, fs *flag.FlagSet, args []string) e
 }
 
 func runSpectrum(ctx context.Context, e *env, fs *flag.FlagSet, args []string) error {
-	in, err := oneInput(args)
+	in, req, err := inputs(fs, args, "channel", "o")
 	if err != nil {
 		return err
 	}
-	name, err := requireFlag(fs, "channel")
-	if err != nil {
-		return err
-	}
-	out, err := requireFlag(fs, "o")
-	if err != nil {
-		return err
-	}
+	name, out := req[0], req[1]
 	scan, err := acquire.ReadScanFile(in)
 	if err != nil {
 		return dataError(err)
