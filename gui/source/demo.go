@@ -2,7 +2,6 @@ package source
 
 import (
 	"context"
-	_ "embed"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -15,15 +14,10 @@ import (
 	"whorl/analysis"
 	"whorl/calibrate"
 	"whorl/gui/viewmodel"
+	"whorl/internal/demodata"
 	"whorl/store"
 	"whorl/synth"
 )
-
-// demoProcedure is the demo inspection's examination procedure (the same
-// invented procedure the calibration tests use).
-//
-//go:embed demo-procedure.json
-var demoProcedure []byte
 
 // Invented people of the demo record. The clerk registers whoever signs
 // in at the workstation, so that the demo can be tried in every role.
@@ -39,7 +33,7 @@ const DemoTubes = 24
 
 // demoConfig returns the demo configuration at workstation size.
 func demoConfig() synth.Config {
-	cfg := synth.Demo()
+	cfg, _ := demodata.Config("demo")
 	cfg.Tubes = DemoTubes
 	cfg.Groups = 4
 	cfg.DriftedGroup = 3
@@ -94,9 +88,6 @@ func OpenDemo(ctx context.Context, dir string, actor viewmodel.Actor, now func()
 		return nil, err
 	}
 	in.info.Demo = true
-	in.calScans = func(calID string) string {
-		return filepath.Join(dir, "data", "calibration", calID+".csv")
-	}
 	return in, nil
 }
 
@@ -111,7 +102,11 @@ func BuildDemo(ctx context.Context, dir string, now func() time.Time) error {
 	if err != nil {
 		return err
 	}
-	proc, err := calibrate.ParseProcedure("demo-procedure.json", demoProcedure)
+	procJSON, err := demodata.ProcedureJSON("demo")
+	if err != nil {
+		return err
+	}
+	proc, err := demodata.Procedure("demo")
 	if err != nil {
 		return err
 	}
@@ -138,7 +133,7 @@ func BuildDemo(ctx context.Context, dir string, now func() time.Time) error {
 	if _, err := clerk.AddStandard(ctx, std.Serial, stdJSON); err != nil {
 		return err
 	}
-	if _, err := builder.AddChain(ctx, proc.ID, demoProcedure); err != nil {
+	if _, err := builder.AddChain(ctx, proc.ID, procJSON); err != nil {
 		return err
 	}
 	var comps []store.Component

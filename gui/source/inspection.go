@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"os"
 	"path/filepath"
 	"slices"
 	"sort"
@@ -17,6 +18,7 @@ import (
 	"whorl/analysis/measure"
 	"whorl/calibrate"
 	"whorl/gui/viewmodel"
+	"whorl/internal/demodata"
 	"whorl/store"
 )
 
@@ -86,22 +88,48 @@ func newInspection(ctx context.Context, st *store.Store, actor viewmodel.Actor, 
 		tubes: map[string]*tubeData{}}
 	in.info = viewmodel.Info{Title: fmt.Sprintf("%s · %s · %s", insp.Site, insp.Component, insp.ID), Path: st.Path(),
 		Procedure: strings.TrimSpace(insp.Procedure + " rev " + insp.ProcedureRev)}
+	if in.proc, err = findProcedure(ctx, st, insp); err != nil {
+		return nil, err
+	}
+	// The standard scans of a record written by `whorl demo` or
+	// `whorl inspect`: data/calibration/<group>-open.csv beside the record.
+	calDir := filepath.Join(filepath.Dir(st.Path()), "data", "calibration")
+	if _, err := os.Stat(calDir); err == nil {
+		in.calScans = func(calID string) string { return filepath.Join(calDir, groupOf(calID)+"-open.csv") }
+	}
+	if err := in.reload(ctx); err != nil {
+		return nil, err
+	}
+	return in, nil
+}
+
+// findProcedure returns the record's procedure: a processing-chain
+// document that is a procedure, else a procedure.json beside the record or
+// in its data folder, else the built-in demo procedure with the record's
+// procedure id and revision.
+func findProcedure(ctx context.Context, st *store.Store, insp store.Inspection) (*calibrate.Procedure, error) {
 	chains, err := st.Chains(ctx)
 	if err != nil {
 		return nil, err
 	}
 	for _, d := range chains {
 		if p, err := calibrate.ParseProcedure(d.ID, d.Body); err == nil {
-			in.proc = p
+			return p, nil
 		}
 	}
-	if in.proc == nil {
-		return nil, fmt.Errorf("%s: the record holds no procedure", st.Path())
+	dir := filepath.Dir(st.Path())
+	for _, p := range []string{filepath.Join(dir, "procedure.json"), filepath.Join(dir, "data", "procedure.json")} {
+		if _, err := os.Stat(p); err == nil {
+			return calibrate.LoadProcedure(p)
+		}
 	}
-	if err := in.reload(ctx); err != nil {
-		return nil, err
+	for _, set := range demodata.Sets {
+		if p, err := demodata.Procedure(set); err == nil && p.ID == insp.Procedure && p.Revision == insp.ProcedureRev {
+			return p, nil
+		}
 	}
-	return in, nil
+	return nil, fmt.Errorf("%s: no procedure: the record holds none, there is no procedure.json beside it, and %s rev %s is not a built-in procedure",
+		st.Path(), insp.Procedure, insp.ProcedureRev)
 }
 
 // reload reads the scans and the newest calibration of each group.
@@ -139,9 +167,13 @@ func (in *Inspection) reload(ctx context.Context) error {
 }
 
 // groupOf returns the calibration group named in a calibration id of the
-// form "<group>-open" (the convention of the demo and of `whorl inspect`);
-// other ids are their own group.
-func groupOf(id string) string { return strings.TrimSuffix(id, "-open") }
+// form "[CAL-]<group>-open" or "-close" (the conventions of the
+// workstation's demo and of `whorl inspect`); other ids are their own
+// group.
+func groupOf(id string) string {
+	id = strings.TrimPrefix(id, "CAL-")
+	return strings.TrimSuffix(strings.TrimSuffix(id, "-open"), "-close")
+}
 
 // Info implements viewmodel.Source.
 func (in *Inspection) Info() viewmodel.Info { return in.info }
