@@ -101,6 +101,36 @@ type Mix struct {
 	ConditionNumber float64 `json:"condition_number"`
 	// TrainingSamples is the number of samples in all windows.
 	TrainingSamples int `json:"training_samples"`
+	// Reference, when set by SetReference, is the window of a reference
+	// flaw (for example the 20 % flat-bottom hole) and ReferenceRatio the
+	// largest residual Vpp over the training windows divided by the flaw's
+	// Vpp in the mix output: procedures ask for the support residual to be
+	// small against the smallest reportable flaw (FIELD.md §2.2).
+	Reference      *MixWindow `json:"reference,omitempty"`
+	ReferenceRatio float64    `json:"reference_ratio,omitempty"`
+}
+
+// SetReference records the reference-flaw figures of a trained mix: the
+// flaw's Vpp in the primary and in the mix output over window (half-open),
+// and ReferenceRatio. It panics if the channels differ in length or in
+// number from training; it returns an error for a window out of range or a
+// flaw with no signal in the mix.
+func (m *Mix) SetReference(primary []complex128, others [][]complex128, window [2]int) error {
+	if err := checkWindow(window, len(primary)); err != nil {
+		return fmt.Errorf("%w: reference flaw %w", ErrMix, err)
+	}
+	out := m.Apply(nil, primary, others)
+	w := MixWindow{Start: window[0], End: window[1], PrimaryVppV: Vpp(primary[window[0]:window[1]]), ResidualVppV: Vpp(out[window[0]:window[1]])}
+	if w.ResidualVppV == 0 {
+		return fmt.Errorf("%w: reference flaw window %d:%d has no signal in the mix", ErrMix, window[0], window[1])
+	}
+	var worst float64
+	for _, tw := range m.Windows {
+		worst = math.Max(worst, tw.ResidualVppV)
+	}
+	m.Reference = &w
+	m.ReferenceRatio = worst / w.ResidualVppV
+	return nil
 }
 
 // ErrMix is returned (wrapped) when a mix cannot be trained or read.

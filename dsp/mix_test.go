@@ -88,6 +88,31 @@ func TestTrainMixExact(t *testing.T) {
 	}
 }
 
+func TestMixReference(t *testing.T) {
+	t.Parallel()
+	p, o, _ := supportPair(1000, [2][2]float64{{0.8, -0.3}, {0.5, 1.7}}, [2]float64{})
+	rnd := rand.New(rand.NewPCG(5, 6))
+	dsptest.AddNoise(p, 0.01, rnd)
+	others := [][]complex128{o}
+	m, err := TrainMix(MixAffine, p, others, [][2]int{{200, 300}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := m.SetReference(p, others, [2]int{570, 630}); err != nil {
+		t.Fatal(err)
+	}
+	// The flaw lies where the other channel is silent, so the mix passes it
+	// unchanged (up to the fitted offset, which Vpp ignores).
+	out := m.Apply(nil, p, others)
+	want := m.Windows[0].ResidualVppV / Vpp(out[570:630])
+	if m.Reference == nil || m.ReferenceRatio != want || m.ReferenceRatio > 0.2 {
+		t.Errorf("reference ratio %v, want %v (< 0.2)", m.ReferenceRatio, want)
+	}
+	if err := m.SetReference(p, others, [2]int{990, 1001}); err == nil {
+		t.Error("reference window past the end: no error")
+	}
+}
+
 func TestTrainMixThreeInputs(t *testing.T) {
 	t.Parallel()
 	p, o1, pos := supportPair(1000, [2][2]float64{{1, 0}, {0, 1}}, [2]float64{})

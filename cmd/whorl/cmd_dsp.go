@@ -38,7 +38,7 @@ length > 0) give one sample per cycle, the settling part of each slot
 discarded (default a quarter slot). Raw samples are never changed.
 
 Examples:
-  whorl demod -o R12C034.csv R12C034-raw.csv
+  whorl demod -o R01C012.csv 01-R01C012-diff-tones.csv
   whorl demod --rate 4kHz --lowpass 500Hz --coil-length 2mm -o out.csv raw.csv
   whorl demod --json -o out.csv raw.csv`,
 		setFlags: func(fs *flag.FlagSet) {
@@ -63,7 +63,7 @@ its SHA-256 (metadata keys chain and chain_sha256). Warnings, such as a
 low-pass cut-off inside the flaw band, go to standard error.
 
 Examples:
-  whorl process --chain bobbin.json -o R12C034-proc.csv R12C034.csv
+  whorl process --chain bobbin.json -o R01C012-proc.csv R01C012.csv
   whorl process --chain bobbin.json --json -o out.csv in.csv`,
 		setFlags: func(fs *flag.FlagSet) {
 			fs.String("chain", "", "processing chain `file` (required)")
@@ -75,21 +75,24 @@ Examples:
 	register(&command{
 		name:     "mix train",
 		synopsis: "train a multi-frequency mix on a window of a scan (e.g. the support ring)",
-		usage:    "whorl mix train --primary CH --with CH [--with CH] --window START:END[,START:END] [--form affine|rotate-scale] [--json] -o MIX.json SCAN.csv",
+		usage:    "whorl mix train --primary CH --with CH [--with CH] --window START:END[,START:END] [--form affine|rotate-scale] [--flaw START:END] [--json] -o MIX.json SCAN.csv",
 		help: `Fits the least-squares mix that removes from the primary channel what one
 or two other channels predict over the training windows. Windows are
 half-open sample ranges (120:180) or positions or times with units
 (1.20m:1.26m, 0.5s:0.6s). Prints the quality figures: Vpp in each window
-before and after, the residual ratio and the condition number.
+before and after, the residual ratio and the condition number; with
+--flaw, also the largest support residual relative to that flaw's Vpp in
+the mix (it should be small against the smallest reportable flaw).
 
 Examples:
-  whorl mix train --primary diff-400k --with diff-100k --window 1.20m:1.26m -o support.json cal.csv
-  whorl mix train --primary diff-400k --with diff-100k --with abs-20k --window 400:520,900:960 --form rotate-scale -o mix.json cal.csv`,
+  whorl mix train --primary 400k-diff --with 100k-diff --window 0.62m:0.68m --flaw 0.38m:0.42m -o support.json cal.csv
+  whorl mix train --primary 400k-diff --with 100k-diff --with 20k-abs --window 400:520,900:960 --form rotate-scale -o mix.json cal.csv`,
 		setFlags: func(fs *flag.FlagSet) {
 			fs.String("primary", "", "primary `channel` (required)")
 			fs.Var(&stringList{}, "with", "other `channel` (repeat for a second)")
 			fs.String("window", "", "training windows START:END[,START:END] (required)")
 			fs.String("form", "affine", "mix form: affine or rotate-scale")
+			fs.String("flaw", "", "window START:END of a reference flaw (e.g. the 20% FBH) for the residual-to-flaw ratio")
 			fs.String("o", "", "output mix `file` (required)")
 			fs.Bool("json", false, "print the mix as JSON")
 		},
@@ -103,7 +106,7 @@ Examples:
 mix file to a copy of the scan and prints the mix's quality figures.
 
 Examples:
-  whorl mix apply --mix support.json -o R12C034-mix.csv R12C034.csv
+  whorl mix apply --mix support.json -o R01C012-mix.csv R01C012.csv
   whorl mix apply --mix support.json --name mix-1 -o out.csv in.csv`,
 		setFlags: func(fs *flag.FlagSet) {
 			fs.String("mix", "", "trained mix `file` (required)")
@@ -124,8 +127,8 @@ resampled one (a scan with an axial step is analysed against position).
 Choose a window free of indications for a noise spectrum.
 
 Examples:
-  whorl spectrum --channel diff-400k -o psd.csv scan.csv
-  whorl spectrum --channel diff-400k --window 0.2m:0.9m --png psd.png -o psd.csv scan.csv`,
+  whorl spectrum --channel 400k-diff -o psd.csv scan.csv
+  whorl spectrum --channel 400k-diff --window 0.2m:0.9m --png psd.png -o psd.csv scan.csv`,
 		setFlags: func(fs *flag.FlagSet) {
 			fs.String("channel", "", "`channel` to analyse (required)")
 			fs.String("window", "", "part of the scan START:END (samples, or with a length/time unit)")
@@ -338,6 +341,9 @@ func printMix(w io.Writer, m *dsp.Mix) {
 		fmt.Fprintf(w, "  window %d:%d  Vpp before %.4g V, after %.4g V (%.1f %%)\n", win.Start, win.End, win.PrimaryVppV, win.ResidualVppV, 100*ratio)
 	}
 	fmt.Fprintf(w, "  residual ratio %.4g, condition number %.4g, %d training samples\n", m.ResidualRatio, m.ConditionNumber, m.TrainingSamples)
+	if r := m.Reference; r != nil {
+		fmt.Fprintf(w, "  reference flaw %d:%d: Vpp %.4g V in the mix; largest support residual is %.1f %% of it\n", r.Start, r.End, r.ResidualVppV, 100*m.ReferenceRatio)
+	}
 }
 
 func runMixTrain(ctx context.Context, e *env, fs *flag.FlagSet, args []string) error {
@@ -377,6 +383,18 @@ func runMixTrain(ctx context.Context, e *env, fs *flag.FlagSet, args []string) e
 	m, err := dsp.TrainMix(form, p.Samples, others, wins)
 	if err != nil {
 		return dataError(fmt.Errorf("%s: %w", in, err))
+	}
+	if spec := flagString(fs, "flaw"); spec != "" {
+		fw, err := parseWindows(spec, scan)
+		if err != nil || len(fw) != 1 {
+			if err == nil {
+				err = errors.New("expected one START:END range")
+			}
+			return usagef("--flaw: %v", err)
+		}
+		if err := m.SetReference(p.Samples, others, fw[0]); err != nil {
+			return dataError(fmt.Errorf("%s: %w", in, err))
+		}
 	}
 	m.Primary, m.Others = primary, with
 	b, err := json.MarshalIndent(m, "", "  ")

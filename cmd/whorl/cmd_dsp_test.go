@@ -122,12 +122,12 @@ func TestMixCommands(t *testing.T) {
 	dir := t.TempDir()
 	cal := writeSupportScan(t, dir)
 	mixPath := filepath.Join(dir, "mix.json")
-	code, stdout, stderr := runCmd(t, "mix", "train", "--primary", "diff-400k", "--with", "diff-100k", "--window", "0.28m:0.34m", "-o", mixPath, cal)
+	code, stdout, stderr := runCmd(t, "mix", "train", "--primary", "diff-400k", "--with", "diff-100k", "--window", "0.28m:0.34m", "--flaw", "0.58m:0.62m", "-o", mixPath, cal)
 	if code != exitOK {
 		t.Fatalf("train: exit %d, %s", code, stderr)
 	}
-	if !strings.Contains(stdout, "condition number") || !strings.Contains(stdout, "window 280:341") {
-		t.Errorf("train output %q lacks the quality figures or the window", stdout)
+	if !strings.Contains(stdout, "condition number") || !strings.Contains(stdout, "window 280:341") || !strings.Contains(stdout, "reference flaw 580:621") {
+		t.Errorf("train output %q lacks the quality figures, the window or the reference flaw", stdout)
 	}
 	out := filepath.Join(dir, "mixed.csv")
 	code, stdout, stderr = runCmd(t, "mix", "apply", "--mix", mixPath, "-o", out, cal)
