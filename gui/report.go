@@ -19,18 +19,17 @@ import (
 const Caution = "Results are to be reviewed by qualified, certified personnel under a written procedure. " +
 	"The governing code, local regulations and licensed practice take precedence."
 
-// ReportDesk exports the inspection report as PDF, CSV and JSON.
+// ReportDesk exports the inspection report (PDF) and the CSV and JSON exports.
 type ReportDesk struct {
 	src viewmodel.Source
 	win fyne.Window
 
 	Content fyne.CanvasObject
 
-	dir     *widget.Entry
-	formats *widget.CheckGroup
-	export  *widget.Button
-	result  *widget.Label
-	status  func(string, bool)
+	dir    *widget.Entry
+	export *widget.Button
+	result *widget.Label
+	status func(string, bool)
 	// post runs its argument on the UI thread (fyne.Do by default).
 	post func(func())
 	jobs sync.WaitGroup
@@ -43,9 +42,6 @@ func NewReportDesk(src viewmodel.Source, win fyne.Window, dir string, status fun
 	d := &ReportDesk{src: src, win: win, status: status, post: fyne.Do}
 	d.dir = widget.NewEntry()
 	d.dir.SetText(dir)
-	d.formats = widget.NewCheckGroup([]string{"pdf", "csv", "json"}, nil)
-	d.formats.Horizontal = true
-	d.formats.SetSelected([]string{"pdf", "csv", "json"})
 	d.export = widget.NewButton("export report…", d.confirm)
 	d.export.Importance = widget.HighImportance
 	d.result = widget.NewLabel("")
@@ -53,7 +49,7 @@ func NewReportDesk(src viewmodel.Source, win fyne.Window, dir string, status fun
 	info := src.Info()
 	head := widget.NewLabel("Report of " + info.Title)
 	head.TextStyle = fyne.TextStyle{Bold: true}
-	scope := widget.NewLabel("The report holds the identification, the calibration summary with its curves and group checks, " +
+	scope := widget.NewLabel("Writes report.pdf, indications.csv, indications.json, record.csv and record.json, as `whorl report` does. The report holds the identification, the calibration summary with its curves and group checks, " +
 		"the scope, every reportable indication with its figures, the people and their roles, and the record's chain head. " +
 		"Results of invalid calibration groups are left out and listed for re-test.")
 	scope.Wrapping = fyne.TextWrapWord
@@ -61,7 +57,7 @@ func NewReportDesk(src viewmodel.Source, win fyne.Window, dir string, status fun
 	caution.Wrapping = fyne.TextWrapWord
 	caution.Importance = widget.WarningImportance
 	caution.TextStyle = fyne.TextStyle{Bold: true}
-	form := widget.NewForm(widget.NewFormItem("output folder", d.dir), widget.NewFormItem("formats", d.formats))
+	form := widget.NewForm(widget.NewFormItem("output folder", d.dir))
 	d.Content = container.NewPadded(container.NewVBox(head, scope, form, caution, container.NewHBox(d.export), d.result))
 	return d
 }
@@ -85,9 +81,8 @@ func (d *ReportDesk) confirm() {
 // Export writes the chosen formats into the folder in the background.
 func (d *ReportDesk) Export() {
 	dir := strings.TrimSpace(d.dir.Text)
-	formats := d.formats.Selected
-	if dir == "" || len(formats) == 0 {
-		d.result.SetText("choose an output folder and at least one format")
+	if dir == "" {
+		d.result.SetText("choose an output folder")
 		return
 	}
 	d.export.Disable()
@@ -98,7 +93,7 @@ func (d *ReportDesk) Export() {
 		var paths []string
 		err := os.MkdirAll(dir, 0o755)
 		if err == nil {
-			paths, err = d.src.Export(context.Background(), dir, formats)
+			paths, err = d.src.Export(context.Background(), dir)
 		}
 		d.post(func() {
 			d.export.Enable()

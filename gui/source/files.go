@@ -152,7 +152,7 @@ func (f *Files) Calibration(ctx context.Context, id string) (*viewmodel.Calibrat
 func (f *Files) Approve(ctx context.Context, id, reason string) error { return errNoRecord }
 
 // Export implements viewmodel.Source.
-func (f *Files) Export(ctx context.Context, dir string, formats []string) ([]string, error) {
+func (f *Files) Export(ctx context.Context, dir string) ([]string, error) {
 	return nil, errNoRecord
 }
 

@@ -12,6 +12,7 @@ import (
 	"sort"
 	"strings"
 	"sync"
+	"time"
 
 	"whorl/acquire"
 	"whorl/analysis"
@@ -19,13 +20,14 @@ import (
 	"whorl/calibrate"
 	"whorl/gui/viewmodel"
 	"whorl/internal/demodata"
+	"whorl/internal/workflow"
 	"whorl/store"
 )
 
-// ReportWriter writes the report of an open record in the given formats
-// ("pdf", "csv", "json") into dir and returns the paths written. A nil
-// ReportWriter uses package reports directly.
-type ReportWriter func(ctx context.Context, st *store.Store, dir string, formats []string) ([]string, error)
+// ReportWriter writes the report of an open record into dir and returns
+// the paths written. A nil ReportWriter uses the command line's report
+// workflow.
+type ReportWriter func(ctx context.Context, st *store.Store, dir string) ([]string, error)
 
 // Inspection is an inspection record (package store) opened for review:
 // scans are read from the paths the record holds, calibrated with the
@@ -38,7 +40,7 @@ type Inspection struct {
 	st    *store.Store
 	ss    *store.Session
 	proc  *calibrate.Procedure
-	// report writes the report; nil uses package reports.
+	// report writes the report; nil uses workflow.WriteReports.
 	report ReportWriter
 	// calScans, when set, gives the file of a calibration's standard scan.
 	calScans func(calID string) string
@@ -48,6 +50,7 @@ type Inspection struct {
 	cals   map[string]calEntry   // by group
 	tubes  map[string]*tubeData  // opened components
 	closed bool
+	now    func() time.Time
 }
 
 type calEntry struct {
@@ -84,7 +87,7 @@ func newInspection(ctx context.Context, st *store.Store, actor viewmodel.Actor, 
 	if err != nil {
 		return nil, err
 	}
-	in := &Inspection{actor: actor, st: st, ss: st.As(store.Actor{Name: actor.Name, Role: store.Role(actor.Role)}), report: report,
+	in := &Inspection{actor: actor, st: st, now: time.Now, ss: st.As(store.Actor{Name: actor.Name, Role: store.Role(actor.Role)}), report: report,
 		tubes: map[string]*tubeData{}}
 	in.info = viewmodel.Info{Title: fmt.Sprintf("%s · %s · %s", insp.Site, insp.Component, insp.ID), Path: st.Path(),
 		Procedure: strings.TrimSpace(insp.Procedure + " rev " + insp.ProcedureRev)}
@@ -712,12 +715,19 @@ func (in *Inspection) Approve(ctx context.Context, id, reason string) error {
 	return fmt.Errorf("no calibration %s in the record", id)
 }
 
-// Export implements viewmodel.Source.
-func (in *Inspection) Export(ctx context.Context, dir string, formats []string) ([]string, error) {
+// Export implements viewmodel.Source with the report workflow of the
+// command line (`whorl report`): the procedure's reporting threshold
+// applies, figures show the recorded signals, and a record that does not
+// verify is refused.
+func (in *Inspection) Export(ctx context.Context, dir string) ([]string, error) {
 	if in.report != nil {
-		return in.report(ctx, in.st, dir, formats)
+		return in.report(ctx, in.st, dir)
 	}
-	return in.writeReport(ctx, dir, formats)
+	f, err := workflow.WriteReports(ctx, in.st, dir, in.proc.ReportingPct, in.now)
+	if err != nil {
+		return nil, err
+	}
+	return []string{f.PDF, f.IndicationsCSV, f.IndicationsJSON, f.RecordCSV, f.RecordJSON}, nil
 }
 
 // Store returns the open record (for tests and the command line).

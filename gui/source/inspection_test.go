@@ -94,7 +94,7 @@ func TestDemoRecord(t *testing.T) {
 	if !errors.Is(err, viewmodel.ErrNotPermitted) || !errors.Is(err, store.ErrNotPermitted) {
 		t.Errorf("Level II approval: err %v, want the store's refusal", err)
 	}
-	paths, err := in.Export(ctx, t.TempDir(), []string{"pdf", "csv", "json"})
+	paths, err := in.Export(ctx, t.TempDir())
 	if err != nil || len(paths) != 5 {
 		t.Errorf("export: %v, %v; want 5 files", paths, err)
 	}

@@ -375,8 +375,9 @@ type Source interface {
 	// Approve approves a calibration; it fails with an error wrapping
 	// ErrNotPermitted for roles that may not approve.
 	Approve(ctx context.Context, id, reason string) error
-	// Export writes the report in each format ("pdf", "csv", "json") into
-	// dir and returns the paths written.
-	Export(ctx context.Context, dir string, formats []string) ([]string, error)
+	// Export writes the inspection report (PDF) and the indication and
+	// full-record exports (CSV and JSON) into dir and returns the paths
+	// written.
+	Export(ctx context.Context, dir string) ([]string, error)
 	Close() error
 }

@@ -311,7 +311,7 @@ func (s *Source) Approve(ctx context.Context, id, reason string) error {
 
 // Export implements viewmodel.Source by refusing: the test inspection has
 // no report writer.
-func (s *Source) Export(ctx context.Context, dir string, formats []string) ([]string, error) {
+func (s *Source) Export(ctx context.Context, dir string) ([]string, error) {
 	return nil, errors.New("the test inspection has no report writer")
 }
 
