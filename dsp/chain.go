@@ -130,7 +130,7 @@ func ParseChain(b []byte) (*Chain, error) {
 	dec.DisallowUnknownFields()
 	var c Chain
 	if err := dec.Decode(&c); err != nil {
-		return nil, fmt.Errorf("%w: %w", ErrChain, jsonErr(b, err))
+		return nil, fmt.Errorf("%w: %w", ErrChain, jsonErr(b, err, dec.InputOffset()))
 	}
 	if dec.More() {
 		return nil, fmt.Errorf("%w: data after the chain object", ErrChain)

@@ -123,7 +123,7 @@ var chainErrorCases = []struct {
 	name, src, want string
 }{
 	{"bad json", `{"version":1,"steps":[`, "line 1"},
-	{"unknown key", `{"version":1,"steps":[{"op":"lowpass","order":4,"cutoff":100}]}`, "cutoff"},
+	{"unknown key", `{"version":1,"steps":[{"op":"lowpass","order":4,"cutoff":100}]}`, `line 1, column 64: json: unknown field "cutoff"`},
 	{"version", `{"version":2,"steps":[{"op":"rotate"}]}`, "version 2"},
 	{"unknown op", `{"version":1,"steps":[{"op":"smooth"}]}`, `unknown operation "smooth"`},
 	{"no cutoff", `{"version":1,"steps":[{"op":"lowpass","order":4}]}`, "exactly one positive cut-off"},

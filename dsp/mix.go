@@ -338,7 +338,7 @@ func ParseMix(b []byte) (*Mix, error) {
 	dec.DisallowUnknownFields()
 	var m Mix
 	if err := dec.Decode(&m); err != nil {
-		return nil, fmt.Errorf("%w file: %w", ErrMix, jsonErr(b, err))
+		return nil, fmt.Errorf("%w file: %w", ErrMix, jsonErr(b, err, dec.InputOffset()))
 	}
 	if dec.More() {
 		return nil, fmt.Errorf("%w file: data after the mix object", ErrMix)
@@ -349,9 +349,12 @@ func ParseMix(b []byte) (*Mix, error) {
 	return &m, nil
 }
 
-// jsonErr adds the line and column to a JSON syntax or type error.
-func jsonErr(b []byte, err error) error {
-	var off int64 = -1
+// jsonErr adds the line and column to a JSON decoding error: the error's
+// own offset for syntax and type errors, otherwise (an unknown key) the
+// decoder's position when it stopped, given as at, which is just after
+// the offending member.
+func jsonErr(b []byte, err error, at int64) error {
+	off := at
 	var se *json.SyntaxError
 	var te *json.UnmarshalTypeError
 	switch {
@@ -359,8 +362,7 @@ func jsonErr(b []byte, err error) error {
 		off = se.Offset
 	case errors.As(err, &te):
 		off = te.Offset
-	}
-	if errors.Is(err, io.ErrUnexpectedEOF) || errors.Is(err, io.EOF) {
+	case errors.Is(err, io.ErrUnexpectedEOF) || errors.Is(err, io.EOF):
 		off = int64(len(b))
 		err = fmt.Errorf("unexpected end of input: %w", err)
 	}
