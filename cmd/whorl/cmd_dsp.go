@@ -259,59 +259,6 @@ func runProcess(ctx context.Context, e *env, fs *flag.FlagSet, args []string) er
 	return nil
 }
 
-// parseWindows reads "A:B[,A:B]" as half-open sample ranges (integers) or
-// as position (length unit) or time (time unit) ranges converted to the
-// samples of s that lie within them.
-func parseWindows(spec string, s *acquire.Scan) ([][2]int, error) {
-	var out [][2]int
-	for _, part := range strings.Split(spec, ",") {
-		a, b, ok := strings.Cut(strings.TrimSpace(part), ":")
-		if !ok {
-			return nil, fmt.Errorf("window %q: expected START:END", part)
-		}
-		ia, errA := strconv.Atoi(strings.TrimSpace(a))
-		ib, errB := strconv.Atoi(strings.TrimSpace(b))
-		if errA == nil && errB == nil {
-			if ia < 0 || ib <= ia || ib > s.Len() {
-				return nil, fmt.Errorf("window %q: expected 0 ≤ start < end ≤ %d samples", part, s.Len())
-			}
-			out = append(out, [2]int{ia, ib})
-			continue
-		}
-		axis, what := s.PositionM, "position"
-		va, err1 := units.Parse(units.Length, a)
-		vb, err2 := units.Parse(units.Length, b)
-		if err1 != nil || err2 != nil {
-			axis, what = s.TimeS, "time"
-			va, err1 = units.Parse(units.Time, a)
-			vb, err2 = units.Parse(units.Time, b)
-			if err1 != nil || err2 != nil {
-				return nil, fmt.Errorf("window %q: expected sample numbers, or both ends with a length unit (1.20m:1.26m) or a time unit (0.5s:0.6s)", part)
-			}
-		}
-		if axis == nil {
-			return nil, fmt.Errorf("window %q: the scan has no %s axis", part, what)
-		}
-		lo, hi := math.Min(va, vb), math.Max(va, vb)
-		first, last := -1, -1
-		for i, v := range axis {
-			if v >= lo && v <= hi {
-				if first < 0 {
-					first = i
-				} else if last != i-1 {
-					return nil, fmt.Errorf("window %q: the %s axis passes through it more than once (sample %d)", part, what, i)
-				}
-				last = i
-			}
-		}
-		if first < 0 || last == first {
-			return nil, fmt.Errorf("window %q: fewer than two samples have a %s in it", part, what)
-		}
-		out = append(out, [2]int{first, last + 1})
-	}
-	return out, nil
-}
-
 func channelOf(s *acquire.Scan, name, file string) (*acquire.Channel, error) {
 	c := s.Channel(name)
 	if c == nil {
@@ -376,7 +323,7 @@ func runMixTrain(ctx context.Context, e *env, fs *flag.FlagSet, args []string) e
 		}
 		others = append(others, c.Samples)
 	}
-	wins, err := parseWindows(spec, scan)
+	wins, err := dsp.ParseWindows(spec, scan)
 	if err != nil {
 		return usagef("--window: %v", err)
 	}
@@ -385,7 +332,7 @@ func runMixTrain(ctx context.Context, e *env, fs *flag.FlagSet, args []string) e
 		return dataError(fmt.Errorf("%s: %w", in, err))
 	}
 	if spec := flagString(fs, "flaw"); spec != "" {
-		fw, err := parseWindows(spec, scan)
+		fw, err := dsp.ParseWindows(spec, scan)
 		if err != nil || len(fw) != 1 {
 			if err == nil {
 				err = errors.New("expected one START:END range")
@@ -483,7 +430,7 @@ func runSpectrum(ctx context.Context, e *env, fs *flag.FlagSet, args []string) e
 	z := c.Samples
 	win := [2]int{0, len(z)}
 	if spec := flagString(fs, "window"); spec != "" {
-		ws, err := parseWindows(spec, scan)
+		ws, err := dsp.ParseWindows(spec, scan)
 		if err != nil {
 			return usagef("--window: %v", err)
 		}
