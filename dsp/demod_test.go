@@ -119,10 +119,19 @@ func TestDemodulateZeroDelay(t *testing.T) {
 		ti := float64(i) / fs
 		v[i] = (1 + 2*ti) * math.Cos(2*math.Pi*f*ti+0.5)
 	}
-	rec := &acquire.RawRecord{Coil: "abs", SampleRateHz: fs, ExcitationHz: []float64{f}, VoltageV: v, Mode: acquire.Absolute}
+	pos := make([]float64, n)
+	for i := range pos {
+		pos[i] = 0.2 + 0.5*float64(i)/fs // encoder: 0.5 m/s from 0.2 m
+	}
+	rec := &acquire.RawRecord{Coil: "abs", SampleRateHz: fs, ExcitationHz: []float64{f}, VoltageV: v, Mode: acquire.Absolute, PositionM: pos}
 	scan, _, err := Demodulate(rec, DemodOptions{OutputRateHz: 1000, LowpassHz: 100})
 	if err != nil {
 		t.Fatal(err)
+	}
+	for i, z := range scan.PositionM {
+		if want := 0.2 + 0.5*scan.TimeS[i]; math.Abs(z-want) > 1e-12 {
+			t.Fatalf("sample %d at %v s: position %v m, want %v m", i, scan.TimeS[i], z, want)
+		}
 	}
 	for i, z := range scan.Channels[0].Samples {
 		want := (1 + 2*scan.TimeS[i])
@@ -319,6 +328,30 @@ func TestDemodulateShortBlocks(t *testing.T) {
 					t.Fatalf("rate %v (stage 1: %d) %s sample %d: %v, want %v", rate, rep.Stage1, scan.Channels[k].Name, i, z, tn.Phasor())
 				}
 			}
+		}
+	}
+}
+
+// TestDemodulateMultiplexedPositions: positions of a multiplexed record
+// are interpolated at the cycle centres (exact for a constant speed).
+func TestDemodulateMultiplexedPositions(t *testing.T) {
+	t.Parallel()
+	const fs = 1e6
+	n := 60000
+	tones := []dsptest.Tone{{FreqHz: 200e3, AmplitudeV: 1}, {FreqHz: 50e3, AmplitudeV: 1}}
+	pos := make([]float64, n)
+	for i := range pos {
+		pos[i] = 1 + 0.3*float64(i)/fs
+	}
+	rec := &acquire.RawRecord{Coil: "diff", SampleRateHz: fs, SlotS: 5e-4, ExcitationHz: []float64{200e3, 50e3},
+		VoltageV: dsptest.Multiplexed(n, fs, 5e-4, tones), PositionM: pos}
+	scan, _, err := Demodulate(rec, DemodOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, z := range scan.PositionM {
+		if want := 1 + 0.3*scan.TimeS[i]; math.Abs(z-want) > 1e-12 {
+			t.Fatalf("sample %d: position %v m, want %v m", i, z, want)
 		}
 	}
 }
