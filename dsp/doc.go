@@ -65,7 +65,9 @@
 // Butterworth low-pass run forwards and backwards at that rate; output
 // samples are centred on input samples (no delay). Time-multiplexed records
 // give one Blackman–Harris-weighted lock-in value per slot after the
-// settling time, interpolated onto the centre of each cycle. Channels are
+// settling time (weights: the symmetric 4-term Blackman–Harris window,
+// w[k] over k = 0 … N−1 with N−1 in the cosines, gonum dsp/window),
+// interpolated onto the centre of each cycle. Channels are
 // named "<kHz>k-<coil>", for example "400k-diff" (ChannelLabel).
 //
 // Concurrency. Functions here keep no package state; a FiltFilter or
@@ -82,5 +84,6 @@
 // affine form m = z1 − Σ(α_k z_k + β_k conj(z_k)) − c, rotate-and-scale form
 // m = z1 − Σ w_k z_k − c.
 //
-// Indices. Sample windows are half-open [start, end) index ranges.
+// Indices. Sample windows are half-open [start, end) index ranges;
+// ParseWindows also reads them as position or time ranges with units.
 package dsp
