@@ -23,7 +23,7 @@
 // output is referred to it: z = A e^{j(θ−φ)}, so a coil voltage in phase
 // with the reference gives a purely real z.
 //
-// Rotation. Rotate(z, α) returns z·e^{jα}: a positive angle turns the
+// Rotation. Rotate(c, α) multiplies every sample by e^{jα}: a positive angle turns the
 // impedance-plane trace anticlockwise.
 //
 // Filters. Digital filters are second-order sections (SOS)
