@@ -509,7 +509,7 @@ func (a *Analyzer) classify(ind *Indication, cc *calibrate.ChannelCal, zoned boo
 	inBand := ind.PhaseDeg >= cr.FlawPhaseDeg[0] && ind.PhaseDeg <= cr.FlawPhaseDeg[1]
 	straight := ind.CrossVpp <= cr.GeometryMaxCross*ind.Vpp
 	zoneBand, inZoneBand := false, false
-	if lo, hi, ok := zoneFlawBand(cc, cr.ZonePhaseMarginDeg); ok && zoned && isMix {
+	if lo, hi, ok := zoneFlawBand(cc, cr); ok && zoned && isMix {
 		zoneBand = true
 		inZoneBand = calibrate.WrapDeg(ind.PhaseDeg-lo) <= hi-lo
 	}
@@ -564,19 +564,23 @@ func (a *Analyzer) classify(ind *Indication, cc *calibrate.ChannelCal, zoned boo
 	}
 }
 
-// zoneFlawBand returns the zone flaw band of a channel: its sizing
-// curve's calibrated phase range [XMin, XMax] widened by marginDeg on
-// either side. ok is false when the margin is zero (no zone band) or the
-// channel has no sizing curve on phase.
-func zoneFlawBand(cc *calibrate.ChannelCal, marginDeg float64) (lo, hi float64, ok bool) {
-	if marginDeg <= 0 || cc.SizingCurve == "" {
+// zoneFlawBand returns the zone flaw band of a channel: from the lower
+// edge of the flaw phase band (ID-origin flaws read between the lift-off
+// axis and the through-wall hole, below the OD curve) or the sizing
+// curve's deep end XMin less the margin, whichever is lower, to the curve's
+// shallow end XMax plus the margin ZonePhaseMarginDeg. ok is false when
+// the margin is zero (no zone band) or the channel has no sizing curve on
+// phase.
+func zoneFlawBand(cc *calibrate.ChannelCal, cr calibrate.ClassRules) (lo, hi float64, ok bool) {
+	m := cr.ZonePhaseMarginDeg
+	if m <= 0 || cc.SizingCurve == "" {
 		return 0, 0, false
 	}
 	cv := cc.Curve(cc.SizingCurve)
 	if cv == nil || cv.Variable == calibrate.VarAmplitude || !(cv.XMax > cv.XMin) {
 		return 0, 0, false
 	}
-	return cv.XMin - marginDeg, cv.XMax + marginDeg, true
+	return math.Min(cr.FlawPhaseDeg[0], cv.XMin-m), cv.XMax + m, true
 }
 
 // depositRatio returns the landmark channel's calibrated Vpp in the

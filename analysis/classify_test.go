@@ -12,8 +12,8 @@ import (
 // mix, both sized with a piecewise-linear phase curve through 40° (100
 // %TW), 60° (80), 75° (60), 84° (40) and 91° (20) — the shape of a support
 // mix's curve, whose shallow end is compressed — and classification
-// numbers like the demo procedure's, with a zone flaw band of the curve's
-// range widened by 10°: [30°, 101°].
+// numbers like the demo procedure's, with a zone flaw band from the flaw
+// band's low edge to the curve's shallow end plus 10°: [8°, 101°].
 func zoneFixture(t *testing.T, marginDeg, zoneMinSNR float64) (*Analyzer, *calibrate.ChannelCal, *calibrate.ChannelCal) {
 	t.Helper()
 	pts := []calibrate.CurvePoint{
@@ -65,6 +65,11 @@ func TestZoneRules(t *testing.T) {
 		{name: "residue near the axis, no zone band", mix: true, zoned: true, vpp: 0.6, phase: 170, cross: 0.4, snr: 2, class: ClassReview, rule: RuleComposite, depth: -1, reportable: true},
 		{name: "residue below the axis", mix: true, zoned: true, vpp: 0.9, phase: 340, cross: 0.4, snr: 3.5, margin: 10, zoneSNR: 2, class: ClassLandmark, rule: RuleResidue, depth: -1, reportable: true},
 		{name: "out of band above residue_max_vpp", mix: true, zoned: true, vpp: 2.5, phase: 172, cross: 0.1, snr: 9, margin: 10, zoneSNR: 2, class: ClassGeometry, rule: RuleGeometry, depth: -1, reportable: true},
+		// An ID flaw at a support reads between the lift-off axis and the
+		// through-wall hole, below the OD curve's range but inside the
+		// flaw band: never residue; sized at the curve's deep end (a
+		// bound, out of range, reportable).
+		{name: "ID flaw at a support", mix: true, zoned: true, vpp: 1.5, phase: 20, cross: 0.5, snr: 6, margin: 10, zoneSNR: 2, class: ClassFlaw, rule: RuleFlawPhase, depth: 100, reportable: true},
 		// An axial crack beside a support: in the band, S/N between
 		// zone_min_snr and min_snr.
 		{name: "weak in-band signal at a support", mix: true, zoned: true, vpp: 0.77, phase: 89, cross: 0.4, snr: 2.6, margin: 10, zoneSNR: 2, class: ClassReview, rule: RuleZoneWeak, depth: -1, reportable: true},
@@ -108,28 +113,40 @@ func TestZoneRules(t *testing.T) {
 	}
 }
 
-// TestZoneFlawBand: the band is the sizing curve's range widened by the
-// margin, and there is none without a margin, a sizing curve or a phase
-// variable.
+// TestZoneFlawBand: the band runs from the lower of the flaw band's low
+// edge and the curve's deep end less the margin, to the curve's shallow
+// end plus the margin; there is none without a margin, a sizing curve or
+// a phase variable.
 func TestZoneFlawBand(t *testing.T) {
 	t.Parallel()
-	_, _, mix := zoneFixture(t, 10, 2)
-	if lo, hi, ok := zoneFlawBand(mix, 10); !ok || lo != 30 || hi != 101 {
+	a, _, mix := zoneFixture(t, 10, 2)
+	cr := a.proc.Classification
+	// Curve range [40°, 91°], margin 10°, flaw band from 8°: [8°, 101°].
+	if lo, hi, ok := zoneFlawBand(mix, cr); !ok || lo != 8 || hi != 101 {
+		t.Errorf("band [%g, %g] ok %v, want [8, 101] true", lo, hi, ok)
+	}
+	// A flaw band starting above the curve's deep end less the margin:
+	// [40 − 10, 91 + 10].
+	high := cr
+	high.FlawPhaseDeg = [2]float64{35, 172}
+	if lo, hi, ok := zoneFlawBand(mix, high); !ok || lo != 30 || hi != 101 {
 		t.Errorf("band [%g, %g] ok %v, want [30, 101] true", lo, hi, ok)
 	}
-	if _, _, ok := zoneFlawBand(mix, 0); ok {
+	off := cr
+	off.ZonePhaseMarginDeg = 0
+	if _, _, ok := zoneFlawBand(mix, off); ok {
 		t.Error("band without a margin")
 	}
 	none := *mix
 	none.SizingCurve = ""
-	if _, _, ok := zoneFlawBand(&none, 10); ok {
+	if _, _, ok := zoneFlawBand(&none, cr); ok {
 		t.Error("band without a sizing curve")
 	}
 	amp := *mix.Curves[0]
 	amp.Variable = calibrate.VarAmplitude
 	byAmp := *mix
 	byAmp.Curves = []*calibrate.Curve{&amp}
-	if _, _, ok := zoneFlawBand(&byAmp, 10); ok {
+	if _, _, ok := zoneFlawBand(&byAmp, cr); ok {
 		t.Error("band on an amplitude curve")
 	}
 }

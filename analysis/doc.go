@@ -61,9 +61,11 @@
 //	                              but past the curve's shallow end; kept
 //	                              reportable (OutOfRange set), not sized
 //
-// The zone flaw band of a mix is its sizing curve's calibrated phase range
-// [XMin, XMax] widened by ZonePhaseMarginDeg on either side (no band when
-// the margin is zero or the sizing curve is not on phase). What a mix
+// The zone flaw band of a mix runs from the lower of FlawPhaseDeg[0] and
+// its sizing curve's deep end XMin less ZonePhaseMarginDeg (ID-origin
+// flaws read below the OD curve) to the curve's shallow end XMax plus
+// ZonePhaseMarginDeg (no band when the margin is zero or the sizing curve
+// is not on phase). What a mix
 // leaves of a support lies outside the band (near the lift-off axis on
 // the demo data), while wall loss reads inside it; at a support a small flaw's mix signal
 // is comparable with that residue in amplitude, so there phase decides

@@ -267,11 +267,11 @@ type ClassRules struct {
 	// the flaw phase band is the landmark's mix residue (0: no such rule).
 	ResidueMaxVpp float64 `json:"residue_max_vpp,omitempty"`
 	// ZonePhaseMarginDeg widens the sizing curve's calibrated phase range
-	// [XMin, XMax] on either side into the zone flaw band of a mix: in a
-	// landmark zone, a mix signal of at most ResidueMaxVpp whose phase
-	// lies outside that band is the landmark's mix residue, and one inside
-	// it is judged by ZoneMinSNR (0: neither rule; see the analysis
-	// package).
+	// [XMin, XMax] into the zone flaw band of a mix (from the lower of
+	// FlawPhaseDeg[0] and XMin − margin to XMax + margin): in a landmark
+	// zone, a mix signal of at most ResidueMaxVpp whose phase lies outside
+	// that band is the landmark's mix residue, and one inside it is judged
+	// by ZoneMinSNR (0: neither rule; see the analysis package).
 	ZonePhaseMarginDeg float64 `json:"zone_phase_margin_deg,omitempty"`
 	// ZoneMinSNR: in a landmark zone, a mix signal inside the zone flaw
 	// band with S/N from ZoneMinSNR up to MinSNR goes to an analyst
