@@ -119,11 +119,12 @@ Examples:
 	register(&command{
 		name:     "spectrum",
 		synopsis: "noise power spectral density of a channel (Welch), CSV and PNG",
-		usage:    "whorl spectrum --channel CH [--window START:END] [--segment N] [--json] -o PSD.csv [--png PSD.png] SCAN.csv",
+		usage:    "whorl spectrum --channel CH [--window START:END] [--segment N] [--axis auto|time|position] [--json] -o PSD.csv [--png PSD.png] SCAN.csv",
 		help: `Estimates the one-sided power spectral density of a channel (X and Y
 summed) by Welch's method: Hann-windowed segments (symmetric window) with
 50 % overlap, in V²/Hz for a time-sampled scan or V²·m for an axially
-resampled one (a scan with an axial step is analysed against position).
+resampled one (by default a scan with an axial step is analysed against
+position; --axis time uses the nominal sample rate).
 Choose a window free of indications for a noise spectrum.
 
 Examples:
@@ -133,6 +134,7 @@ Examples:
 			fs.String("channel", "", "`channel` to analyse (required)")
 			fs.String("window", "", "part of the scan START:END (samples, or with a length/time unit)")
 			fs.Int("segment", 256, "Welch segment length in samples (even)")
+			fs.String("axis", "auto", "analyse against time (V²/Hz) or position (V²·m); auto: position when the scan has an axial step")
 			fs.String("o", "", "output CSV `file` (required)")
 			fs.String("png", "", "also draw the spectrum to this PNG `file`")
 			fs.Bool("json", false, "print the spectrum as JSON")
@@ -439,14 +441,19 @@ func runSpectrum(ctx context.Context, e *env, fs *flag.FlagSet, args []string) e
 		}
 		win = ws[0]
 	}
-	// A uniform axial grid is preferred: encoder-triggered samples are
-	// uniform in position while their times follow the probe's speed.
+	// By default a uniform axial grid is preferred: encoder-triggered
+	// samples are uniform in position while their times follow the probe.
 	rate, xLabel, unit := scan.SampleRateHz, "Frequency (Hz)", "V²/Hz"
-	switch {
-	case scan.AxialStepM > 0:
+	switch axis := flagString(fs, "axis"); {
+	case axis == "position" || (axis == "auto" && scan.AxialStepM > 0):
+		if !(scan.AxialStepM > 0) {
+			return dataError(fmt.Errorf("%s: the scan has no axial step (resample it first)", in))
+		}
 		rate, xLabel, unit = 1/scan.AxialStepM, "Spatial frequency (cycles/m)", "V²·m"
+	case axis != "time" && axis != "auto":
+		return usagef("--axis %q: expected auto, time or position", axis)
 	case !(rate > 0):
-		return dataError(fmt.Errorf("%s: the scan has neither a sample rate nor an axial step", in))
+		return dataError(fmt.Errorf("%s: the scan has no sample rate", in))
 	}
 	seg := flagInt(fs, "segment")
 	n := win[1] - win[0]

@@ -198,7 +198,14 @@ func TestSpectrumCommand(t *testing.T) {
 	if st, err := os.Stat(png); err != nil || st.Size() < 1000 {
 		t.Errorf("PNG not written: %v", err)
 	}
-	if !strings.Contains(stdout, "RMS") {
+	if !strings.Contains(stdout, "RMS") || !strings.Contains(stdout, "cycles/m") {
 		t.Errorf("stdout %q", stdout)
+	}
+	code, stdout, _ = runCmd(t, "spectrum", "--channel", "diff-400k", "--axis", "time", "--segment", "64", "-o", out, cal)
+	if code != exitOK || !strings.Contains(stdout, "bin width 15.62 Hz") {
+		t.Errorf("--axis time: exit %d, %q; want bins of 1000/64 Hz", code, stdout)
+	}
+	if code, _, _ = runCmd(t, "spectrum", "--channel", "diff-400k", "--axis", "depth", "-o", out, cal); code != exitUsage {
+		t.Errorf("--axis depth: exit %d, want %d", code, exitUsage)
 	}
 }
