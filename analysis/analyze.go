@@ -115,13 +115,7 @@ func (a *Analyzer) Analyze(ctx context.Context, scan *acquire.Scan) ([]Indicatio
 	if err := ctx.Err(); err != nil {
 		return nil, nil, err
 	}
-	if err := scan.Validate(); err != nil {
-		return nil, nil, err
-	}
-	if err := calibrate.CheckScanChannels(a.proc, scan); err != nil {
-		return nil, nil, err
-	}
-	posM, err := calibrate.ScanPositions(scan)
+	posM, err := a.load(scan)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -138,10 +132,6 @@ func (a *Analyzer) Analyze(ctx context.Context, scan *acquire.Scan) ([]Indicatio
 	}
 	if cal.Status != calibrate.StatusApproved {
 		rep.Warnings = append(rep.Warnings, fmt.Sprintf("calibration %s version %d is not approved: results are provisional", cal.ID, cal.Version))
-	}
-	clear(a.raw)
-	for _, c := range scan.Channels {
-		a.raw[c.Name] = c.Samples
 	}
 	// Landmarks on the raw landmark channel.
 	lmRaw := a.raw[proc.Landmarks.Channel]
@@ -292,19 +282,9 @@ func (a *Analyzer) calibrated(dst []complex128, name string, lmRaw []complex128,
 // display (impedance plane, strip charts) and for measurements an analyst
 // takes by hand with package measure.
 func (a *Analyzer) Calibrated(scan *acquire.Scan) (map[string][]complex128, []Landmark, error) {
-	if err := scan.Validate(); err != nil {
-		return nil, nil, err
-	}
-	if err := calibrate.CheckScanChannels(a.proc, scan); err != nil {
-		return nil, nil, err
-	}
-	posM, err := calibrate.ScanPositions(scan)
+	posM, err := a.load(scan)
 	if err != nil {
 		return nil, nil, err
-	}
-	clear(a.raw)
-	for _, c := range scan.Channels {
-		a.raw[c.Name] = c.Samples
 	}
 	lmRaw := a.raw[a.proc.Landmarks.Channel]
 	lms := a.landmarks(lmRaw, posM)
@@ -317,6 +297,26 @@ func (a *Analyzer) Calibrated(scan *acquire.Scan) (map[string][]complex128, []La
 		out[c.Channel] = z
 	}
 	return out, lms, nil
+}
+
+// load validates scan, checks it has the channels the procedure needs,
+// points a.raw at its channels and returns its positions.
+func (a *Analyzer) load(scan *acquire.Scan) ([]float64, error) {
+	if err := scan.Validate(); err != nil {
+		return nil, err
+	}
+	if err := calibrate.CheckScanChannels(a.proc, scan); err != nil {
+		return nil, err
+	}
+	posM, err := calibrate.ScanPositions(scan)
+	if err != nil {
+		return nil, err
+	}
+	clear(a.raw)
+	for _, c := range scan.Channels {
+		a.raw[c.Name] = c.Samples
+	}
+	return posM, nil
 }
 
 func lobeRad(p *calibrate.Procedure) float64 {
