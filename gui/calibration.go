@@ -95,6 +95,7 @@ func (d *CalibrationDesk) build() {
 	}
 	d.checks, d.events = mono(), mono()
 	d.flawHead = mono()
+	d.flawHead.Truncation = fyne.TextTruncateEllipsis
 	d.flaws = widget.NewList(func() int { return len(d.flawRows) },
 		func() fyne.CanvasObject {
 			l := widget.NewLabel("")
@@ -113,7 +114,7 @@ func (d *CalibrationDesk) build() {
 
 	top := container.NewVBox(container.NewBorder(nil, nil, widget.NewLabel("calibration"), container.NewHBox(d.state), d.pick), d.standard)
 	approveRow := container.NewBorder(nil, nil, nil, d.approve, d.reason)
-	flawHead := widget.NewLabel("located reference flaws")
+	flawHead := widget.NewLabel("located reference flaws (prime channel; select one to show it)")
 	flawHead.TextStyle = fyne.TextStyle{Bold: true}
 	checkHead := widget.NewLabel("group checks")
 	checkHead.TextStyle = fyne.TextStyle{Bold: true}
@@ -230,7 +231,7 @@ func (d *CalibrationDesk) showDetail(det *viewmodel.CalibrationDetail) {
 	}
 	d.curves.Refresh()
 	// Located flaws.
-	d.flawHead.SetText(fmt.Sprintf("%-12s %-19s %5s %8s %8s %7s", "flaw", "type", "%TW", "at / mm", "Vpp / V", "phase") + "  (prime channel; select to show)")
+	d.flawHead.SetText(fmt.Sprintf("%-12s %-19s %5s %8s %8s %7s", "flaw", "type", "%TW", "at / mm", "Vpp / V", "phase") )
 	d.located, d.flawRows = det.Located, d.flawRows[:0]
 	for _, f := range det.Located {
 		if !f.Found {

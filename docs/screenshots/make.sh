@@ -2,6 +2,7 @@
 # Regenerates the workstation screenshots under Xvfb (needs xvfb-run and
 # ImageMagick's import/convert). Run from the repository root:
 #   sh docs/screenshots/make.sh
+# ONLY='calibration*' limits it to the matching names.
 set -eu
 out=docs/screenshots
 bin=${WHORL_BIN:-/tmp/whorl-screens}
@@ -10,6 +11,7 @@ go build -o "$bin" ./cmd/whorl
 export LANG=en_US.UTF-8 WHORL_USER="Rosa Quill" WHORL_ROLE=level2
 shot() { # name size desk theme [extra env]
   name=$1 size=$2 desk=$3 theme=$4; shift 4
+  case "$name" in ${ONLY:-*}) ;; *) return 0 ;; esac
   xvfb-run -a -s "-screen 0 ${size}x24" sh -c "env $* '$bin' gui --demo-dir '$demo' --size '$size' --desk '$desk' --theme '$theme' >/dev/null 2>&1 & p=\$!; sleep ${WAIT:-12}; import -window root '$out/$name.png'; kill \$p"
   convert "$out/$name.png" -strip -colors 256 "$out/$name.png"
 }
