@@ -231,7 +231,7 @@ func (d *CalibrationDesk) showDetail(det *viewmodel.CalibrationDetail) {
 	}
 	d.curves.Refresh()
 	// Located flaws.
-	d.flawHead.SetText(fmt.Sprintf("%-12s %-19s %5s %8s %8s %7s", "flaw", "type", "%TW", "at / mm", "Vpp / V", "phase") )
+	d.flawHead.SetText(fmt.Sprintf("%-12s %-19s %5s %8s %8s %7s", "flaw", "type", "%TW", "at / mm", "Vpp / V", "phase"))
 	d.located, d.flawRows = det.Located, d.flawRows[:0]
 	for _, f := range det.Located {
 		if !f.Found {
