@@ -95,8 +95,10 @@ type Options struct {
 	Exclude func(d store.Indication) string
 }
 
-// defaultCurve reads {"points":[{"phase_rad":…,"depth_pct":…},…]}.
-func defaultCurve(c store.Calibration) ([]CurvePoint, error) {
+// PointsCurve reads a calibration body of the form
+// {"points":[{"phase_rad":…,"depth_pct":…},…]}; it is what FromStore uses
+// when Options.Curve is nil. A body that is not an object has no points.
+func PointsCurve(c store.Calibration) ([]CurvePoint, error) {
 	var body struct {
 		Points []CurvePoint `json:"points"`
 	}
@@ -124,7 +126,7 @@ func FromStore(ctx context.Context, s *store.Store, opt Options) (*Inspection, e
 	}
 	curve := opt.Curve
 	if curve == nil {
-		curve = defaultCurve
+		curve = PointsCurve
 	}
 	res, err := s.Verify(ctx)
 	if err != nil {

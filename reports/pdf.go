@@ -599,9 +599,13 @@ func (p *pdfw) figureSection() {
 		for _, h := range hist {
 			p.f.MultiCell(bodyW, 3.4, pdfText(h, false), "", "L", false)
 		}
-		if d.Window == nil {
+		if d.Window == nil || len(d.Window.X) == 0 {
+			msg := "Signal window not supplied to the report: figures not drawn."
+			if d.Window != nil && d.Window.Note != "" {
+				msg = "Figures not drawn: " + d.Window.Note
+			}
 			p.font("", 8)
-			p.f.MultiCell(bodyW, 4, "Signal window not supplied to the report: figures not drawn.", "", "L", false)
+			p.f.MultiCell(bodyW, 4, pdfText(clipText(msg, 400), false), "", "L", false)
 			p.f.Ln(2)
 			continue
 		}

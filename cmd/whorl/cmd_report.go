@@ -5,10 +5,9 @@ import (
 	"errors"
 	"flag"
 	"fmt"
-	"os"
-	"path/filepath"
 
-	"whorl/acquire"
+	"whorl/calibrate"
+	"whorl/internal/workflow"
 	"whorl/reports"
 	"whorl/store"
 )
@@ -32,10 +31,15 @@ Outputs (at least one):
 Each file is written whole or not at all.
 
 --signals draws the impedance-plane and strip-chart figures of each
-reportable indication from its scan file (a relative path is looked up in
-DB's directory, then in the working directory), after checking the file
-against the size and SHA-256 in the record; the figures show the channel
-as stored in the scan file.
+reportable indication from its scan file (a relative path is taken from
+DB's folder), after checking the file against the size and SHA-256 in the
+record; the figures show the channel or mix in calibrated volts, with the
+calibration recorded for the indication.
+
+--procedure applies the procedure's reporting criteria to the indication
+table: non-relevant classes and flaw-like indications below its reporting
+threshold are counted, not listed (they stay in the exports). Without it
+every indication that is not rejected is listed.
 
 --release NOTE records the QA release of the record as it stands (the
 person at this workstation must be registered with role qa) and then
@@ -47,7 +51,7 @@ Environment: WHORL_USER and WHORL_ROLE declare who is at the workstation
 Examples:
   whorl report --db insp.whorl --pdf report.pdf --csv indications.csv --json record.json
   WHORL_USER="Uma Quist" WHORL_ROLE=qa whorl report --db insp.whorl --release "final report" --pdf report.pdf
-  whorl report --db insp.whorl --signals --pdf report.pdf`,
+  whorl report --db insp.whorl --signals --procedure proc.json --pdf report.pdf`,
 		setFlags: func(fs *flag.FlagSet) {
 			fs.String("db", "", "inspection record `file` (required)")
 			fs.String("pdf", "", "write the PDF report to `file`")
@@ -56,6 +60,7 @@ Examples:
 			fs.String("record-csv", "", "write the full record (event log) CSV to `file`")
 			fs.String("indications-json", "", "write the indications JSON to `file`")
 			fs.Bool("signals", false, "draw indication figures from the scan files")
+			fs.String("procedure", "", "apply this procedure's reporting criteria (`file`)")
 			fs.String("release", "", "record the QA release with this `note` before writing")
 		},
 		run: runReport,
@@ -99,9 +104,17 @@ func runReport(ctx context.Context, e *env, fs *flag.FlagSet, args []string) err
 		}
 		fmt.Fprintf(e.stderr, "released report %s\n", rel.ReportID)
 	}
-	opt := reports.Options{Now: e.now}
-	if flagBool(fs, "signals") {
-		opt.Window = scanWindows(filepath.Dir(db), s)
+	pct := workflow.NoReportingCriteria
+	if p := flagString(fs, "procedure"); p != "" {
+		proc, err := calibrate.LoadProcedure(p)
+		if err != nil {
+			return dataError(err)
+		}
+		pct = proc.ReportingPct
+	}
+	opt := workflow.ReportOptions(s, pct, e.now)
+	if !flagBool(fs, "signals") {
+		opt.Window = nil
 	}
 	in, err := reports.FromStore(ctx, s, opt)
 	if errors.Is(err, store.ErrTampered) {
@@ -133,80 +146,4 @@ func countReportable(in *reports.Inspection) int {
 		}
 	}
 	return n
-}
-
-func fileExists(path string) bool {
-	_, err := os.Stat(path)
-	return err == nil
-}
-
-// scanWindows returns a window loader that reads each indication's scan
-// file (relative paths from dir, else from the working directory), checks
-// its size and SHA-256 against the record, and cuts the indication's channel around the measurement window
-// (one window length either side). An indication whose channel is not in
-// the file (a mix, say) gets no window.
-func scanWindows(dir string, s *store.Store) func(context.Context, store.Indication) (*reports.Window, error) {
-	scans := map[string]*acquire.Scan{}
-	var recorded map[string]store.Scan
-	return func(ctx context.Context, d store.Indication) (*reports.Window, error) {
-		if recorded == nil {
-			list, err := s.Scans(ctx)
-			if err != nil {
-				return nil, err
-			}
-			recorded = map[string]store.Scan{}
-			for _, sc := range list {
-				recorded[sc.ID] = sc
-			}
-		}
-		rec, ok := recorded[d.ScanID]
-		if !ok {
-			return nil, fmt.Errorf("scan %q is not in the record", d.ScanID)
-		}
-		sc, ok := scans[rec.ID]
-		if !ok {
-			// A relative path is taken from the record's directory, else
-			// from the working directory; the digest check below rejects
-			// any other file of the same name.
-			path := rec.Path
-			if !filepath.IsAbs(path) {
-				if p := filepath.Join(dir, path); fileExists(p) || !fileExists(path) {
-					path = p
-				}
-			}
-			size, sum, err := store.FileDigest(path)
-			if err != nil {
-				return nil, err
-			}
-			if size != rec.SizeBytes || sum != rec.SHA256 {
-				return nil, fmt.Errorf("scan file %s does not match the record (size %d, sha256 %s; recorded %d, %s)",
-					path, size, sum, rec.SizeBytes, rec.SHA256)
-			}
-			f, err := os.Open(path)
-			if err != nil {
-				return nil, err
-			}
-			sc, err = acquire.ReadScan(f, path)
-			f.Close()
-			if err != nil {
-				return nil, err
-			}
-			scans[rec.ID] = sc
-		}
-		ch := sc.Channel(d.Channel)
-		if ch == nil {
-			return nil, nil
-		}
-		n := d.EndSample - d.StartSample
-		lo, hi := max(0, d.StartSample-n), min(len(ch.Samples), d.EndSample+n)
-		if d.StartSample < 0 || d.EndSample > len(ch.Samples) {
-			return nil, fmt.Errorf("measurement window [%d, %d) is outside scan %q (%d samples)", d.StartSample, d.EndSample, rec.ID, len(ch.Samples))
-		}
-		w := &reports.Window{Channel: d.Channel, FirstSample: lo, X: make([]float64, hi-lo), Y: make([]float64, hi-lo),
-			Note: fmt.Sprintf("channel %s as stored in scan file %s", d.Channel, rec.Path)}
-		for i, z := range ch.Samples[lo:hi] {
-			w.X[i], w.Y[i] = real(z), imag(z)
-		}
-		return w, nil
-	}
 }

@@ -75,7 +75,8 @@ func TestReportSignals(t *testing.T) {
 			t.Fatal(err)
 		}
 		got := strings.Join(strings.Fields(string(txt)), " ")
-		for _, want := range []string{"Signal: channel F1-diff as stored in scan file scans/R1C1.csv", "Signal window not supplied"} {
+		for _, want := range []string{"Signal: channel F1-diff as stored in scans/R1C1.csv (size and SHA-256 checked against the record)",
+			"Figures not drawn: no calibration is recorded for the indication and scans/R1C1.csv has no channel MIX-1"} {
 			if !strings.Contains(got, want) {
 				t.Errorf("PDF text lacks %q", want)
 			}

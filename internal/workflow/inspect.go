@@ -479,7 +479,7 @@ func analyseAll(ctx context.Context, st *store.Store, analyst *store.Session, gr
 		scanIDs[s.ID] = s.Path
 	}
 	done := func(path string) bool {
-		s, ok := scanByPath[path]
+		s, ok := scanByPath[recordPath(opt.DBPath, path)]
 		if !ok {
 			return false
 		}
@@ -579,7 +579,7 @@ func analyseFile(ctx context.Context, path string, groups map[string]*group, ana
 	r.row, _ = strconv.Atoi(s.Meta.Extra["row"])
 	r.col, _ = strconv.Atoi(s.Meta.Extra["column"])
 	r.group = s.Meta.CalGroup
-	r.scan = store.Scan{ID: scanID(s), Component: s.Meta.Component, Path: path, SizeBytes: size, SHA256: sum, CalGroup: s.Meta.CalGroup}
+	r.scan = store.Scan{ID: scanID(s), Component: s.Meta.Component, Path: recordPath(opt.DBPath, path), SizeBytes: size, SHA256: sum, CalGroup: s.Meta.CalGroup}
 	if r.component == "" {
 		r.component = strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))
 		r.err = fmt.Errorf("%s: no component identifier in the metadata", path)
@@ -611,6 +611,22 @@ func analyseFile(ctx context.Context, path string, groups map[string]*group, ana
 	return r
 }
 
+// recordPath is the path of a scan file as the record keeps it: relative
+// to the record's folder when the file is inside it, so that the folder
+// can be moved or archived whole, and absolute otherwise.
+func recordPath(dbPath, path string) string {
+	absDB, err1 := filepath.Abs(dbPath)
+	abs, err2 := filepath.Abs(path)
+	if err1 != nil || err2 != nil {
+		return path
+	}
+	rel, err := filepath.Rel(filepath.Dir(absDB), abs)
+	if err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+		return abs
+	}
+	return rel
+}
+
 // scanID names a scan record: component and start time.
 func scanID(s *acquire.Scan) string {
 	if s.Meta.Start.IsZero() {
@@ -619,11 +635,12 @@ func scanID(s *acquire.Scan) string {
 	return s.Meta.Component + "@" + s.Meta.Start.UTC().Format("20060102T150405Z")
 }
 
-// record writes one scan's outcome to the store. A scan that repeats one
-// already recorded from another file (same component and start time) is
-// listed as not examined and left out of the record.
+// record writes one scan's outcome to the store. scans holds the recorded
+// scans by their recorded path, ids their recorded paths by scan ID. A scan
+// that repeats one already recorded from another file (same component and
+// start time) is listed as not examined and left out of the record.
 func record(ctx context.Context, analyst *store.Session, known map[string]store.Component, scans map[string]store.Scan, ids map[string]string, r tubeResult, sum *Summary) error {
-	if path, dup := ids[r.scan.ID]; r.err == nil && dup && path != r.file {
+	if path, dup := ids[r.scan.ID]; r.err == nil && dup && path != r.scan.Path {
 		sum.NotExamined = append(sum.NotExamined, NotExamined{Component: r.component, File: r.file,
 			Reason: fmt.Sprintf("the same scan (%s) as %s, which is recorded", r.scan.ID, path)})
 		return nil
@@ -639,12 +656,12 @@ func record(ctx context.Context, analyst *store.Session, known map[string]store.
 		sum.NotExamined = append(sum.NotExamined, NotExamined{Component: r.component, File: r.file, Reason: r.err.Error()})
 		return analyst.MarkNotExamined(ctx, r.component, r.err.Error())
 	}
-	if _, ok := scans[r.file]; !ok {
+	if _, ok := scans[r.scan.Path]; !ok {
 		if err := analyst.AddScan(ctx, r.scan); err != nil {
 			return fmt.Errorf("%s: %w", r.file, err)
 		}
-		scans[r.file] = r.scan
-		ids[r.scan.ID] = r.file
+		scans[r.scan.Path] = r.scan
+		ids[r.scan.ID] = r.scan.Path
 	}
 	// Landmarks (supports, tubesheets) found by the analysis are the
 	// reference points of the indications' locations, not indications:
@@ -657,7 +674,7 @@ func record(ctx context.Context, analyst *store.Session, known map[string]store.
 		}
 		recs = append(recs, toStore(&r.inds[i]))
 	}
-	if _, err := analyst.AddIndications(ctx, scans[r.file].ID, recs); err != nil {
+	if _, err := analyst.AddIndications(ctx, scans[r.scan.Path].ID, recs); err != nil {
 		return fmt.Errorf("%s: %w", r.file, err)
 	}
 	sum.Examined++

@@ -18,25 +18,43 @@ import (
 
 // ReportFiles names the files WriteReports wrote.
 type ReportFiles struct {
-	ReportID        string `json:"report_id"`
-	Draft           bool   `json:"draft"`
-	PDF             string `json:"pdf"`
-	IndicationsCSV  string `json:"indications_csv"`
-	IndicationsJSON string `json:"indications_json"`
-	RecordCSV       string `json:"record_csv"`
-	RecordJSON      string `json:"record_json"`
+	ReportID        string            `json:"report_id"`
+	Draft           bool              `json:"draft"`
+	PDF             string            `json:"pdf"`
+	IndicationsCSV  string            `json:"indications_csv"`
+	IndicationsJSON string            `json:"indications_json"`
+	RecordCSV       string            `json:"record_csv"`
+	RecordJSON      string            `json:"record_json"`
+	Written         []reports.Written `json:"written"`
+}
+
+// NoReportingCriteria, given as the reporting threshold, lists every
+// indication that is not rejected (when the procedure is not known).
+const NoReportingCriteria = -1.0
+
+// ReportOptions returns the options that build a report from the record
+// st: calibration curves from the recorded calibrations; figures of each
+// reportable indication's signal read back from its scan file (checked
+// against the recorded size and SHA-256, a relative path taken from the
+// record's folder) and calibrated with the recorded calibration; and the
+// procedure's reporting criteria for the threshold reportingPct (%TW), or
+// none for NoReportingCriteria.
+func ReportOptions(st *store.Store, reportingPct float64, now func() time.Time) reports.Options {
+	src := &signalSource{st: st, dir: filepath.Dir(st.Path()), cals: map[string]*calibrate.Calibration{}, scans: map[string]*acquire.Scan{}}
+	opt := reports.Options{Now: now, Curve: curvePoints, Window: src.window}
+	if reportingPct >= 0 {
+		opt.Exclude = reportingCriteria(reportingPct)
+	}
+	return opt
 }
 
 // WriteReports writes the PDF report and the CSV and JSON exports of the
-// record into dir. Figures show each reportable indication's signal read
-// back from its scan file (verified against the recorded SHA-256) and
-// calibrated with the recorded calibration.
+// record into dir (see ReportOptions), each file whole or not at all.
 func WriteReports(ctx context.Context, st *store.Store, dir string, reportingPct float64, now func() time.Time) (*ReportFiles, error) {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return nil, err
 	}
-	src := &signalSource{st: st, cals: map[string]*calibrate.Calibration{}, scans: map[string]*acquire.Scan{}}
-	in, err := reports.FromStore(ctx, st, reports.Options{Now: now, Curve: curvePoints, Window: src.window, Exclude: reportingCriteria(reportingPct)})
+	in, err := reports.FromStore(ctx, st, ReportOptions(st, reportingPct, now))
 	if err != nil {
 		return nil, err
 	}
@@ -49,20 +67,10 @@ func WriteReports(ctx context.Context, st *store.Store, dir string, reportingPct
 		RecordCSV:       filepath.Join(dir, "record.csv"),
 		RecordJSON:      filepath.Join(dir, "record.json"),
 	}
-	writers := []struct {
-		path  string
-		write func(*os.File) error
-	}{
-		{files.PDF, func(f *os.File) error { return reports.WritePDF(f, in) }},
-		{files.IndicationsCSV, func(f *os.File) error { return reports.WriteIndicationsCSV(f, in) }},
-		{files.IndicationsJSON, func(f *os.File) error { return reports.WriteIndicationsJSON(f, in) }},
-		{files.RecordCSV, func(f *os.File) error { return reports.WriteRecordCSV(f, in) }},
-		{files.RecordJSON, func(f *os.File) error { return reports.WriteRecordJSON(f, in) }},
-	}
-	for _, w := range writers {
-		if err := writeAtomic(w.path, w.write); err != nil {
-			return nil, err
-		}
+	files.Written, err = reports.WriteFiles(in, reports.Files{PDF: files.PDF, IndicationsCSV: files.IndicationsCSV,
+		IndicationsJSON: files.IndicationsJSON, RecordCSV: files.RecordCSV, RecordJSON: files.RecordJSON})
+	if err != nil {
+		return nil, err
 	}
 	return files, nil
 }
@@ -92,41 +100,14 @@ func reportingCriteria(reportingPct float64) func(store.Indication) string {
 	}
 }
 
-// writeAtomic writes a file through a temporary file and a rename, so a
-// reader never sees half a report.
-func writeAtomic(path string, write func(*os.File) error) error {
-	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*")
-	if err != nil {
-		return err
-	}
-	tmp := f.Name()
-	err = f.Chmod(0o644)
-	if err == nil {
-		err = write(f)
-	}
-	if err == nil {
-		err = f.Sync()
-	}
-	if cerr := f.Close(); err == nil {
-		err = cerr
-	}
-	if err == nil {
-		err = os.Rename(tmp, path)
-	}
-	if err != nil {
-		os.Remove(tmp)
-		return fmt.Errorf("write %s: %w", path, err)
-	}
-	return nil
-}
-
 // curvePoints gives the report the sizing curve of a calibration: the
 // prime channel's sizing curve points (as-built depth against calibrated
-// phase).
+// phase). A body that is not a Whorl calibration is read as a plain list
+// of points (reports.PointsCurve).
 func curvePoints(c store.Calibration) ([]reports.CurvePoint, error) {
 	cal, err := calibrate.ParseCalibration(c.ID, c.Body)
 	if err != nil {
-		return nil, err
+		return reports.PointsCurve(c)
 	}
 	for i := range cal.Channels {
 		cc := &cal.Channels[i]
@@ -149,6 +130,7 @@ func curvePoints(c store.Calibration) ([]reports.CurvePoint, error) {
 // signalSource reads indication signals back from the scan files.
 type signalSource struct {
 	st    *store.Store
+	dir   string // the record's folder: relative scan paths start there
 	mu    sync.Mutex
 	cals  map[string]*calibrate.Calibration
 	scans map[string]*acquire.Scan // the last few scans read, by scan ID
@@ -177,48 +159,65 @@ func (s *signalSource) window(ctx context.Context, d store.Indication) (*reports
 	}
 	scan, err := s.scan(rec)
 	if err != nil {
-		return &reports.Window{Note: "signal not shown: " + err.Error()}, nil
+		return nil, err
 	}
-	key := fmt.Sprintf("%s#%d", d.CurveID, d.CurveVersion)
-	cal := s.cals[key]
-	if cal == nil {
-		c, err := s.st.Calibration(ctx, d.CurveID, d.CurveVersion)
-		if err != nil {
-			return nil, err
+	var z []complex128
+	var note string
+	if d.CurveID == "" {
+		ch := scan.Channel(d.Channel)
+		if ch == nil {
+			return &reports.Window{Note: fmt.Sprintf("no calibration is recorded for the indication and %s has no channel %s", rec.Path, d.Channel)}, nil
 		}
-		if cal, err = calibrate.ParseCalibration(c.ID, c.Body); err != nil {
-			return nil, err
+		z, note = ch.Samples, fmt.Sprintf("channel %s as stored in %s (size and SHA-256 checked against the record); no calibration recorded", d.Channel, rec.Path)
+	} else {
+		key := fmt.Sprintf("%s v%d", d.CurveID, d.CurveVersion)
+		cal := s.cals[key]
+		if cal == nil {
+			c, err := s.st.Calibration(ctx, d.CurveID, d.CurveVersion)
+			if err != nil {
+				return nil, err
+			}
+			if cal, err = calibrate.ParseCalibration(c.ID, c.Body); err != nil {
+				return &reports.Window{Note: fmt.Sprintf("calibration %s is not a Whorl calibration: %v", key, err)}, nil
+			}
+			s.cals[key] = cal
 		}
-		s.cals[key] = cal
+		if z, err = calibratedChannel(scan, cal, d.Channel); err != nil {
+			return &reports.Window{Note: err.Error()}, nil
+		}
+		note = fmt.Sprintf("%s in calibrated volts, read back from %s (size and SHA-256 checked against the record) with calibration %s", d.Channel, rec.Path, key)
 	}
-	z, err := calibratedChannel(scan, cal, d.Channel)
-	if err != nil {
-		return &reports.Window{Note: "signal not shown: " + err.Error()}, nil
+	if d.StartSample < 0 || d.EndSample > len(z) || d.StartSample >= d.EndSample {
+		return nil, fmt.Errorf("indication %s: measurement window [%d, %d) is outside scan %s (%d samples)", d.ID, d.StartSample, d.EndSample, rec.ID, len(z))
 	}
 	n := d.EndSample - d.StartSample
 	lo := max(0, d.StartSample-windowMargin*n)
 	hi := min(len(z), d.EndSample+windowMargin*n)
-	w := &reports.Window{Channel: d.Channel, FirstSample: lo, X: make([]float64, hi-lo), Y: make([]float64, hi-lo),
-		Note: "read back from " + filepath.Base(rec.Path) + " (SHA-256 verified) with calibration " + key}
+	w := &reports.Window{Channel: d.Channel, FirstSample: lo, X: make([]float64, hi-lo), Y: make([]float64, hi-lo), Note: note}
 	for i := lo; i < hi; i++ {
 		w.X[i-lo], w.Y[i-lo] = real(z[i]), imag(z[i])
 	}
 	return w, nil
 }
 
-// scan reads a recorded scan file, refusing one whose content no longer
-// matches the recorded SHA-256. A few scans are kept, since indications
+// scan reads a recorded scan file, refusing one whose size or content no
+// longer matches the record: a report never shows a signal other than the
+// one that was analysed. A few scans are kept, since indications
 // come grouped by scan.
 func (s *signalSource) scan(rec store.Scan) (*acquire.Scan, error) {
 	if sc := s.scans[rec.ID]; sc != nil {
 		return sc, nil
 	}
-	sc, _, sum, err := readScan(rec.Path, nil)
+	path := rec.Path
+	if !filepath.IsAbs(path) {
+		path = filepath.Join(s.dir, path)
+	}
+	sc, size, sum, err := readScan(path, nil)
 	if err != nil {
 		return nil, err
 	}
-	if sum != rec.SHA256 {
-		return nil, fmt.Errorf("%s has changed since it was recorded (SHA-256 %s, recorded %s)", rec.Path, sum[:12], rec.SHA256[:12])
+	if sum != rec.SHA256 || size != rec.SizeBytes {
+		return nil, fmt.Errorf("scan file %s does not match the record (%d bytes, SHA-256 %.12s…; recorded %d bytes, %.12s…)", path, size, sum, rec.SizeBytes, rec.SHA256)
 	}
 	const keep = 4
 	if len(s.order) == keep {
