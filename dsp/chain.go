@@ -396,16 +396,19 @@ func (c *Chain) applyStep(s *acquire.Scan, out **acquire.Scan, st Step) ([]strin
 		if err != nil {
 			return nil, err
 		}
-		if st.Op != "highpass" {
-			// The flaw band in the filter's own units: speed ÷ coil length in
-			// Hz, or 1 ÷ coil length in cycles per metre.
-			speed := s.Meta.ProbeSpeedMPS
-			if perM {
-				speed = 1
-			}
-			if w := FlawBandWarning(cut, speed, c.CoilLengthM); w != "" {
-				warns = append(warns, w)
-			}
+		// The flaw band: probe speed ÷ coil length in Hz, or 1 ÷ coil length
+		// in cycles per metre on an axial grid.
+		var w string
+		switch {
+		case perM:
+			w = spatialFlawBandWarning(st.Op == "highpass", cut, c.CoilLengthM)
+		case st.Op == "highpass":
+			w = HighpassFlawBandWarning(cut, s.Meta.ProbeSpeedMPS, c.CoilLengthM)
+		default:
+			w = FlawBandWarning(cut, s.Meta.ProbeSpeedMPS, c.CoilLengthM)
+		}
+		if w != "" {
+			warns = append(warns, w)
 		}
 		idx, err := targets(s, st)
 		if err != nil {
@@ -499,6 +502,23 @@ func (c *Chain) applyStep(s *acquire.Scan, out **acquire.Scan, st Step) ([]strin
 		}
 	}
 	return warns, nil
+}
+
+// spatialFlawBandWarning is FlawBandWarning (or, for a high-pass,
+// HighpassFlawBandWarning) for cut-offs in cycles per metre, where the flaw
+// band is 1 ÷ coil length.
+func spatialFlawBandWarning(highpass bool, cutPerM, coilLengthM float64) string {
+	if !(coilLengthM > 0) || !(cutPerM > 0) {
+		return ""
+	}
+	band := 1 / coilLengthM
+	switch {
+	case highpass && cutPerM > band:
+		return fmt.Sprintf("high-pass cut-off %.4g cycles/m is above the flaw band %.4g cycles/m (1 ÷ coil length %.4g mm): flaw signals will be removed", cutPerM, band, coilLengthM*1e3)
+	case !highpass && cutPerM < band:
+		return fmt.Sprintf("low-pass cut-off %.4g cycles/m is below the flaw band %.4g cycles/m (1 ÷ coil length %.4g mm): flaw signals will be attenuated and distorted", cutPerM, band, coilLengthM*1e3)
+	}
+	return ""
 }
 
 // ApplyMixToScan applies m to the channels of s it names and returns the

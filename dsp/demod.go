@@ -118,6 +118,22 @@ func FlawBandWarning(cutoffHz, speedMPS, coilLengthM float64) string {
 	return ""
 }
 
+// HighpassFlawBandWarning returns a warning when a high-pass (drift
+// removal) cut-off lies above the flaw band, probe speed ÷ effective coil
+// length, so that it would remove the flaw signals themselves, and ""
+// otherwise or when either quantity is unknown (zero).
+func HighpassFlawBandWarning(cutoffHz, speedMPS, coilLengthM float64) string {
+	if !(speedMPS > 0) || !(coilLengthM > 0) || !(cutoffHz > 0) {
+		return ""
+	}
+	band := speedMPS / coilLengthM
+	if cutoffHz > band {
+		return fmt.Sprintf("high-pass cut-off %.4g Hz is above the flaw band %.4g Hz (probe speed %.4g m/s ÷ coil length %.4g mm): flaw signals will be removed",
+			cutoffHz, band, speedMPS, coilLengthM*1e3)
+	}
+	return ""
+}
+
 // validateRecord checks the record; with checkVoltage false the voltage
 // samples are left to the caller (the simultaneous-tone lock-in checks them
 // for non-finite values during its first pass, which saves a pass over the

@@ -241,6 +241,15 @@ func TestFlawBandWarning(t *testing.T) {
 	if w := FlawBandWarning(300, 0.5, 2e-3); w != "" {
 		t.Errorf("cut-off 300 Hz: warning %q, want none", w)
 	}
+	if w := HighpassFlawBandWarning(300, 0.5, 2e-3); !strings.Contains(w, "250 Hz") {
+		t.Errorf("high-pass 300 Hz: warning %q, want one naming the 250 Hz band", w)
+	}
+	if w := HighpassFlawBandWarning(2, 0.5, 2e-3); w != "" {
+		t.Errorf("high-pass 2 Hz: warning %q, want none", w)
+	}
+	if w := spatialFlawBandWarning(false, 200, 4e-3); !strings.Contains(w, "250 cycles/m") {
+		t.Errorf("low-pass 200 cycles/m: warning %q, want one naming 250 cycles/m", w)
+	}
 }
 
 func TestSplitDecimation(t *testing.T) {
