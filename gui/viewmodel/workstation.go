@@ -360,64 +360,50 @@ func (ws *Workstation) windowChanged() {
 	ws.Remeasure()
 }
 
-// viewChanged is called after a zoom or pan.
-func (ws *Workstation) viewChanged() { ws.changed(ChangedChart) }
+// moveWindow applies f to the chart, then re-measures.
+func (ws *Workstation) moveWindow(f func(*Chart)) {
+	if ws.chart != nil {
+		f(ws.chart)
+		ws.windowChanged()
+	}
+}
+
+// moveView applies f to the chart's view (zoom, pan): only a redraw.
+func (ws *Workstation) moveView(f func(*Chart)) {
+	if ws.chart != nil {
+		f(ws.chart)
+		ws.changed(ChangedChart)
+	}
+}
 
 // StepWindow moves the analysis window by a fraction of its width.
 func (ws *Workstation) StepWindow(frac float64) {
-	if ws.chart != nil {
-		ws.chart.StepWindow(frac)
-		ws.windowChanged()
-	}
+	ws.moveWindow(func(c *Chart) { c.StepWindow(frac) })
 }
 
 // ScaleWindow multiplies the analysis-window width by f.
 func (ws *Workstation) ScaleWindow(f float64) {
-	if ws.chart != nil {
-		ws.chart.ScaleWindow(f)
-		ws.windowChanged()
-	}
+	ws.moveWindow(func(c *Chart) { c.ScaleWindow(f) })
 }
 
 // SetWindow places the analysis window on [from, to] axis units.
 func (ws *Workstation) SetWindow(from, to float64) {
-	if ws.chart != nil {
-		ws.chart.SetWindow(from, to)
-		ws.windowChanged()
-	}
+	ws.moveWindow(func(c *Chart) { c.SetWindow(from, to) })
 }
 
 // CentreWindow centres the analysis window on x axis units.
 func (ws *Workstation) CentreWindow(x float64) {
-	if ws.chart != nil {
-		ws.chart.CentreWindow(x)
-		ws.windowChanged()
-	}
+	ws.moveWindow(func(c *Chart) { c.CentreWindow(x) })
 }
 
 // Zoom magnifies the strip charts by f about x (NaN: the window centre).
-func (ws *Workstation) Zoom(f, x float64) {
-	if ws.chart != nil {
-		ws.chart.Zoom(f, x)
-		ws.viewChanged()
-	}
-}
+func (ws *Workstation) Zoom(f, x float64) { ws.moveView(func(c *Chart) { c.Zoom(f, x) }) }
 
 // Pan shifts the strip-chart view by a fraction of its width.
-func (ws *Workstation) Pan(frac float64) {
-	if ws.chart != nil {
-		ws.chart.Pan(frac)
-		ws.viewChanged()
-	}
-}
+func (ws *Workstation) Pan(frac float64) { ws.moveView(func(c *Chart) { c.Pan(frac) }) }
 
 // Fit shows the whole scan.
-func (ws *Workstation) Fit() {
-	if ws.chart != nil {
-		ws.chart.Fit()
-		ws.viewChanged()
-	}
-}
+func (ws *Workstation) Fit() { ws.moveView((*Chart).Fit) }
 
 // RotatePlane turns the impedance-plane display by d radians.
 func (ws *Workstation) RotatePlane(dRad float64) {
