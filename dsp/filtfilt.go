@@ -1,6 +1,7 @@
 package dsp
 
 import (
+	"errors"
 	"fmt"
 )
 
@@ -23,7 +24,7 @@ func (s SOS) PadLen() int {
 
 // ErrTooShort is returned (wrapped) when a signal is too short for the
 // requested operation.
-var ErrTooShort = fmt.Errorf("signal too short")
+var ErrTooShort = errors.New("signal too short")
 
 // FiltFilt filters x forwards and then backwards through s, giving a
 // zero-phase response |H(f)|², and returns the result in dst (nil: allocated;
