@@ -279,3 +279,17 @@ func TestModelAndReportDesks(t *testing.T) {
 		t.Error("about text lacks the caution")
 	}
 }
+
+func TestCallRowKeepsColumns(t *testing.T) {
+	c := viewmodel.Call{ID: "R04C002-1/5", Type: "flaw-like", Channel: "400k-diff", Landmark: "the end face of tubesheet-1",
+		OffsetM: 0.095, VppV: 1.54, PhaseDeg: 95, DepthPct: 54, DepthOK: true, State: viewmodel.Accepted, Origin: "auto"}
+	row := callRow(c)
+	// The Vpp column starts where the header's does.
+	runeIndex := func(s, sub string) int { return len([]rune(s[:strings.Index(s, sub)])) }
+	if h, r := runeIndex(callHeader, "Vpp")-4, runeIndex(row, "1.54 V")-1; h != r {
+		t.Errorf("row %q\nheader %q: Vpp column misaligned", row, callHeader)
+	}
+	if !strings.Contains(row, "tubesheet-1 +95.0 mm") {
+		t.Errorf("row %q lost the landmark or offset", row)
+	}
+}

@@ -174,7 +174,11 @@ func (r *Review) build() {
 	mark := widget.NewButton("new call here  [m]", r.markCall)
 	mark.Importance = widget.HighImportance
 	actions := container.NewHBox(r.callHead, layout.NewSpacer(), accept, reject, retype, comment, mark)
-	callPane := container.NewBorder(actions, nil, nil, nil, r.calls)
+	head := widget.NewLabel(callHeader)
+	head.TextStyle = fyne.TextStyle{Monospace: true}
+	head.Importance = widget.LowImportance
+	head.Truncation = fyne.TextTruncateEllipsis
+	callPane := container.NewBorder(container.NewVBox(actions, head), nil, nil, nil, r.calls)
 
 	centre := container.NewVSplit(centreTop, callPane)
 	centre.SetOffset(0.70)
@@ -237,6 +241,9 @@ func (r *Review) unfocus() {
 	}
 }
 
+// callHeader names the columns of callRow.
+var callHeader = fmt.Sprintf("%-10s %-12s %-14s %-22s %7s %5s %4s  %-11s %s", "state", "call", "class", "location", "Vpp", "phase", "%TW", "channel", "origin")
+
 // callRow formats one call for the list.
 func callRow(c viewmodel.Call) string {
 	depth := "  — "
@@ -244,11 +251,21 @@ func callRow(c viewmodel.Call) string {
 		depth = fmt.Sprintf("%3.0f%%", c.DepthPct)
 	}
 	loc := fmt.Sprintf("%s %+.1f mm", c.Landmark, c.OffsetM*1000)
+	if r := []rune(loc); len(r) > 22 {
+		// Keep the offset; shorten the landmark name.
+		off := fmt.Sprintf(" %+.1f mm", c.OffsetM*1000)
+		name := []rune(c.Landmark)
+		keep := max(22-len([]rune(off))-1, 1)
+		if len(name) > keep {
+			name = append([]rune{'…'}, name[len(name)-keep:]...)
+		}
+		loc = string(name) + off
+	}
 	state := string(c.State)
 	if c.Comment != "" {
 		state += " ✎"
 	}
-	return fmt.Sprintf("%-9s %-12s %-10s %-11s %-19s %5.2f V %4.0f° %s  %s", state, c.ID, c.Type, c.Channel, loc, c.VppV, c.PhaseDeg, depth, c.Origin)
+	return fmt.Sprintf("%-10s %-12s %-14s %-22s %5.2f V %4.0f° %s  %-11s %s", state, c.ID, c.Type, loc, c.VppV, c.PhaseDeg, depth, c.Channel, c.Origin)
 }
 
 func (r *Review) accept() { r.ws.Decide(viewmodel.Decision{Kind: viewmodel.Accept}) }

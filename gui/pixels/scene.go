@@ -3,6 +3,7 @@ package pixels
 import (
 	"image/color"
 	"math"
+	"math/cmplx"
 
 	"whorl/acquire"
 	"whorl/gui/viewmodel"
@@ -253,5 +254,23 @@ func DrawPlane(c Canvas, sc *PlaneScene) {
 		sub.ThickLine(x0, y0, x1, y1, st.Chord)
 		sub.Marker(x0, y0, 6, 0, st.Chord)
 		sub.Marker(x1, y1, 7, 1, st.Chord)
+		// The chord's angle: a horizontal reference from the start point
+		// and an arc from it to the chord, anticlockwise as displayed.
+		ang := cmplx.Phase(sc.Transform.Apply(sc.ChordB) - sc.Transform.Apply(sc.ChordA))
+		if ang < 0 {
+			ang += 2 * math.Pi
+		}
+		r := float64(min(ra.W(), ra.H())) / 10
+		dim := st.Chord
+		dim.A = 0x90
+		sub.Line(x0, y0, x0+int(1.6*r), y0, dim)
+		steps := max(int(ang*r/3), 2)
+		px, py := x0+int(r), y0
+		for k := 1; k <= steps; k++ {
+			a := ang * float64(k) / float64(steps)
+			qx, qy := x0+int(math.Round(r*math.Cos(a))), y0-int(math.Round(r*math.Sin(a)))
+			sub.Line(px, py, qx, qy, dim)
+			px, py = qx, qy
+		}
 	}
 }
