@@ -25,7 +25,7 @@ func Example() {
 	defer os.RemoveAll(dir)
 	clock := func() time.Time { return time.Date(2026, 11, 30, 8, 0, 0, 0, time.UTC) }
 
-	lead := store.Person{Name: "Ines Varga", Role: store.RoleLevel3, CertLevel: "ET Level III", CertExpiry: "2028-06-30"}
+	lead := store.Person{Name: "lead-3a", Role: store.RoleLevel3, CertLevel: "ET Level III", CertExpiry: "2028-06-30"}
 	s, err := store.Create(ctx, filepath.Join(dir, "insp.whorl"), store.Inspection{
 		ID: "INS-1", Site: "Korrin Bay Station", Component: "HX-2B", Procedure: "WP-ET-07", ProcedureRev: "C",
 	}, lead, store.WithClock(clock))
@@ -34,7 +34,7 @@ func Example() {
 		return
 	}
 	defer s.Close()
-	analyst := store.Person{Name: "Tomas Brandt", Role: store.RoleLevel2, CertLevel: "ET Level II", CertExpiry: "2027-03-31"}
+	analyst := store.Person{Name: "analyst-2c", Role: store.RoleLevel2, CertLevel: "ET Level II", CertExpiry: "2027-03-31"}
 	if err := s.As(store.Actor{Name: lead.Name, Role: lead.Role}).AddPerson(ctx, analyst); err != nil {
 		fmt.Println(err)
 		return
@@ -74,7 +74,7 @@ func Example() {
 	// Output:
 	// build calibration: <nil>
 	// refused: true
-	// "Tomas Brandt" (level2) may not approve calibration CAL-A v1: only level3 may do this: not permitted
-	// S-1/1 on R12C34: accepted (call version 2 by Tomas Brandt)
+	// analyst-2c (level2) may not approve calibration CAL-A v1: only level3 may do this: not permitted
+	// S-1/1 on R12C34: accepted (call version 2 by analyst-2c)
 	// verifies: true, 9 events
 }

@@ -29,7 +29,7 @@ func TestRoles(t *testing.T) {
 	ind := store.Indication{Channel: "F1", StartSample: 10, EndSample: 20, VppV: 0.5, Source: store.SourceAnalyst}
 	type action func(s *store.Store, a store.Actor) error
 	addPerson := func(s *store.Store, a store.Actor) error {
-		return s.As(a).AddPerson(ctx, store.Person{Name: "Nia Holm", Role: store.RoleLevel2, CertLevel: "ET Level II", CertExpiry: "2028-01-01"})
+		return s.As(a).AddPerson(ctx, store.Person{Name: "analyst-2n", Role: store.RoleLevel2, CertLevel: "ET Level II", CertExpiry: "2028-01-01"})
 	}
 	addComps := func(s *store.Store, a store.Actor) error {
 		return s.As(a).AddComponents(ctx, []store.Component{{ID: "R9C1", Row: 9, Column: 1}})

@@ -40,7 +40,7 @@ Examples:
 		synopsis: "show the current state of one item of an inspection record",
 		usage:    "whorl records show [--json] DB ITEM",
 		help: `Shows the current state of one item. ITEM is KIND:ID (indication:S-R1C2/1,
-component:R2C2, calibration:CAL-A, person:"Ines Varga") or a bare ID when
+component:R2C2, calibration:CAL-A, person:"lead-3a") or a bare ID when
 only one kind has it. For an indication, every call version is shown;
 for a calibration, every version. Read-only.
 

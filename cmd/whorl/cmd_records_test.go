@@ -56,10 +56,10 @@ func TestRecordsCommands(t *testing.T) {
 		{"list kind json", []string{"records", "list", "--kind", "calibration", "--json", db}, exitOK, []string{`"id": "CAL-A"`, `"events": 2`}, ""},
 		{"show indication", []string{"records", "show", db, "indication:S-R1C2/1"}, exitOK, []string{`"kind": "resolution"`, `"resolved": true`}, ""},
 		{"show bare id", []string{"records", "show", db, "R2C2"}, exitOK, []string{"component R2C2", `"status": "not-examined"`}, ""},
-		{"show person json", []string{"records", "show", "--json", db, "person:Rhea Lind"}, exitOK, []string{`"role": "level3"`}, ""},
+		{"show person json", []string{"records", "show", "--json", db, "person:reviewer-3b"}, exitOK, []string{`"role": "level3"`}, ""},
 		{"show missing", []string{"records", "show", db, "indication:nope"}, exitData, nil, `no indication "nope"`},
 		{"history", []string{"records", "history", db, "S-R1C2/1"}, exitOK,
-			[]string{"4 events", "Kai Ober (level2)", `class: "flaw-like" → "deposit"`, "reason: signal shape matches the flat-bottom-hole reference"}, ""},
+			[]string{"4 events", "analyst-2k (level2)", `class: "flaw-like" → "deposit"`, "reason: signal shape matches the flat-bottom-hole reference"}, ""},
 		{"verify", []string{"records", "verify", db}, exitOK, []string{"verifies: 51 events"}, ""},
 		{"verify json", []string{"records", "verify", "--json", db}, exitOK, []string{`"ok": true`}, ""},
 		{"verify missing file", []string{"records", "verify", filepath.Join(t.TempDir(), "none.whorl")}, exitData, nil, "no such file"},
@@ -148,16 +148,16 @@ func TestReportCommand(t *testing.T) {
 	if code != exitUsage || !strings.Contains(errs, "at least one output") {
 		t.Errorf("report without outputs: code %d, stderr %q", code, errs)
 	}
-	code, _, errs = runCmdEnv(t, map[string]string{"WHORL_USER": "Tomas Brandt", "WHORL_ROLE": "level2"},
+	code, _, errs = runCmdEnv(t, map[string]string{"WHORL_USER": "analyst-2c", "WHORL_ROLE": "level2"},
 		"report", "--db", db, "--release", "mine", "--pdf", pdf)
-	if code != exitRefused || !strings.Contains(errs, `"Tomas Brandt" (level2) may not release the report: only qa may do this`) {
+	if code != exitRefused || !strings.Contains(errs, `analyst-2c (level2) may not release the report: only qa may do this`) {
 		t.Errorf("release by level2: code %d, stderr %q; want %d and a refusal naming the person", code, errs, exitRefused)
 	}
 	code, _, errs = runCmd(t, "report", "--db", db, "--release", "x", "--pdf", pdf)
 	if code != exitUsage || !strings.Contains(errs, "WHORL_USER") {
 		t.Errorf("release without identity: code %d, stderr %q", code, errs)
 	}
-	code, out, errs = runCmdEnv(t, map[string]string{"WHORL_USER": "Uma Quist", "WHORL_ROLE": "qa"},
+	code, out, errs = runCmdEnv(t, map[string]string{"WHORL_USER": "qa-records-2", "WHORL_ROLE": "qa"},
 		"report", "--db", db, "--release", "second issue", "--csv", csvOut)
 	if code != exitOK || !strings.Contains(errs, "released report INS-2026-014-R2-") || !strings.Contains(out, "(released)") {
 		t.Errorf("release by qa: code %d, stdout %q, stderr %q", code, out, errs)

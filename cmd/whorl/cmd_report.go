@@ -50,7 +50,7 @@ Environment: WHORL_USER and WHORL_ROLE declare who is at the workstation
 
 Examples:
   whorl report --db insp.whorl --pdf report.pdf --csv indications.csv --json record.json
-  WHORL_USER="Uma Quist" WHORL_ROLE=qa whorl report --db insp.whorl --release "final report" --pdf report.pdf
+  WHORL_USER="qa-records-2" WHORL_ROLE=qa whorl report --db insp.whorl --release "final report" --pdf report.pdf
   whorl report --db insp.whorl --signals --procedure proc.json --pdf report.pdf`,
 		setFlags: func(fs *flag.FlagSet) {
 			fs.String("db", "", "inspection record `file` (required)")

@@ -27,13 +27,13 @@ func Clock(start time.Time) func() time.Time {
 
 // People of the fixture record (invented).
 var (
-	Lead     = store.Person{Name: "Ines Varga", Role: store.RoleLevel3, CertLevel: "ET Level III", CertExpiry: "2028-06-30"}
-	Resolver = store.Person{Name: "Rhea Lind", Role: store.RoleLevel3, CertLevel: "ET Level III", CertExpiry: "2027-12-31"}
-	Primary  = store.Person{Name: "Tomas Brandt", Role: store.RoleLevel2, CertLevel: "ET Level II", CertExpiry: "2027-03-31"}
-	Second   = store.Person{Name: "Kai Ober", Role: store.RoleLevel2, CertLevel: "ET Level II", CertExpiry: "2027-09-30"}
-	Acquirer = store.Person{Name: "Leo Penn", Role: store.RoleLevel1, CertLevel: "ET Level I", CertExpiry: "2027-01-31"}
-	Records  = store.Person{Name: "Uma Quist", Role: store.RoleQA, CertLevel: "QA records"}
-	Expired  = store.Person{Name: "Olle Sand", Role: store.RoleLevel2, CertLevel: "ET Level II", CertExpiry: "2026-01-31"}
+	Lead     = store.Person{Name: "lead-3a", Role: store.RoleLevel3, CertLevel: "ET Level III", CertExpiry: "2028-06-30"}
+	Resolver = store.Person{Name: "reviewer-3b", Role: store.RoleLevel3, CertLevel: "ET Level III", CertExpiry: "2027-12-31"}
+	Primary  = store.Person{Name: "analyst-2c", Role: store.RoleLevel2, CertLevel: "ET Level II", CertExpiry: "2027-03-31"}
+	Second   = store.Person{Name: "analyst-2k", Role: store.RoleLevel2, CertLevel: "ET Level II", CertExpiry: "2027-09-30"}
+	Acquirer = store.Person{Name: "acquirer-1a", Role: store.RoleLevel1, CertLevel: "ET Level I", CertExpiry: "2027-01-31"}
+	Records  = store.Person{Name: "qa-records-2", Role: store.RoleQA, CertLevel: "QA records"}
+	Expired  = store.Person{Name: "analyst-2x", Role: store.RoleLevel2, CertLevel: "ET Level II", CertExpiry: "2026-01-31"}
 )
 
 // ActorOf returns the actor for a registered person.
