@@ -121,6 +121,19 @@ func (w *writer) addPerson(ctx context.Context, p Person) error {
 // AddComponents registers tubes or other components in one transaction.
 // Level I, II and III.
 func (ss *Session) AddComponents(ctx context.Context, comps []Component) error {
+	if err := checkComponents(comps); err != nil {
+		return err
+	}
+	return ss.s.write(ctx, ss.actor, "add components", func(w *writer) error {
+		if err := w.authorize(ctx, "register components", RoleLevel1, RoleLevel2, RoleLevel3); err != nil {
+			return err
+		}
+		return w.addComponents(ctx, comps)
+	})
+}
+
+// checkComponents validates components to register.
+func checkComponents(comps []Component) error {
 	seen := map[string]bool{}
 	for i, c := range comps {
 		if err := firstErr(checkID(fmt.Sprintf("component %d id", i), c.ID), checkText("label", c.Label)); err != nil {
@@ -134,31 +147,43 @@ func (ss *Session) AddComponents(ctx context.Context, comps []Component) error {
 		}
 		seen[c.ID] = true
 	}
-	return ss.s.write(ctx, ss.actor, "add components", func(w *writer) error {
-		if err := w.authorize(ctx, "register components", RoleLevel1, RoleLevel2, RoleLevel3); err != nil {
+	return nil
+}
+
+func (w *writer) addComponents(ctx context.Context, comps []Component) error {
+	for _, c := range comps {
+		var n int
+		if err := w.tx.QueryRowContext(ctx, "SELECT count(*) FROM components WHERE component_id = ?", c.ID).Scan(&n); err != nil {
 			return err
 		}
-		for _, c := range comps {
-			var n int
-			if err := w.tx.QueryRowContext(ctx, "SELECT count(*) FROM components WHERE component_id = ?", c.ID).Scan(&n); err != nil {
-				return err
-			}
-			if n > 0 {
-				return fmt.Errorf("component %s is already registered", quote(c.ID))
-			}
-			c.Status, c.Reason, c.StatusAt, c.StatusBy = StatusPending, "", time.Time{}, ""
-			if _, err := w.insert(ctx, tComponents, []any{c.ID, c.Row, c.Column, c.Label, w.stamp(), w.actor.Name},
-				change{kind: "component", id: c.ID, action: "register", after: c}); err != nil {
-				return err
-			}
+		if n > 0 {
+			return fmt.Errorf("component %s is already registered", quote(c.ID))
 		}
-		return nil
-	})
+		c.Status, c.Reason, c.StatusAt, c.StatusBy = StatusPending, "", time.Time{}, ""
+		if _, err := w.insert(ctx, tComponents, []any{c.ID, c.Row, c.Column, c.Label, w.stamp(), w.actor.Name},
+			change{kind: "component", id: c.ID, action: "register", after: c}); err != nil {
+			return err
+		}
+	}
+	return nil
 }
 
 // AddScan records a raw scan file by path, size and SHA-256. The
 // component must be registered. Level I, II and III.
 func (ss *Session) AddScan(ctx context.Context, sc Scan) error {
+	if err := checkScan(sc); err != nil {
+		return err
+	}
+	return ss.s.write(ctx, ss.actor, "add scan", func(w *writer) error {
+		if err := w.authorize(ctx, "record scan "+quote(sc.ID), RoleLevel1, RoleLevel2, RoleLevel3); err != nil {
+			return err
+		}
+		return w.addScan(ctx, sc)
+	})
+}
+
+// checkScan validates a scan to record.
+func checkScan(sc Scan) error {
 	if err := firstErr(checkID("scan id", sc.ID), checkID("scan component", sc.Component),
 		checkText("scan path", sc.Path), checkID("calibration group", sc.CalGroup),
 		checkHexSHA256("scan sha256", sc.SHA256)); err != nil {
@@ -167,21 +192,20 @@ func (ss *Session) AddScan(ctx context.Context, sc Scan) error {
 	if sc.Path == "" || sc.SizeBytes < 0 {
 		return fmt.Errorf("scan %s: path %q, size %d: want a path and a size >= 0", quote(sc.ID), sc.Path, sc.SizeBytes)
 	}
-	return ss.s.write(ctx, ss.actor, "add scan", func(w *writer) error {
-		if err := w.authorize(ctx, "record scan "+quote(sc.ID), RoleLevel1, RoleLevel2, RoleLevel3); err != nil {
-			return err
-		}
-		if err := exists(ctx, w.tx, "components", "component_id", sc.Component, "component"); err != nil {
-			return err
-		}
-		if err := absent(ctx, w.tx, "scans", "scan_id", sc.ID, "scan"); err != nil {
-			return err
-		}
-		sc.At, sc.By = w.at, w.actor.Name
-		_, err := w.insert(ctx, tScans, []any{sc.ID, sc.Component, sc.Path, sc.SizeBytes, sc.SHA256, sc.CalGroup, w.stamp(), w.actor.Name},
-			change{kind: "scan", id: sc.ID, action: "record", after: sc})
+	return nil
+}
+
+func (w *writer) addScan(ctx context.Context, sc Scan) error {
+	if err := exists(ctx, w.tx, "components", "component_id", sc.Component, "component"); err != nil {
 		return err
-	})
+	}
+	if err := absent(ctx, w.tx, "scans", "scan_id", sc.ID, "scan"); err != nil {
+		return err
+	}
+	sc.At, sc.By = w.at, w.actor.Name
+	_, err := w.insert(ctx, tScans, []any{sc.ID, sc.Component, sc.Path, sc.SizeBytes, sc.SHA256, sc.CalGroup, w.stamp(), w.actor.Name},
+		change{kind: "scan", id: sc.ID, action: "record", after: sc})
+	return err
 }
 
 // compactJSON checks that body is one JSON value and returns it compacted
@@ -422,6 +446,70 @@ func (ss *Session) AddIndications(ctx context.Context, scanID string, inds []Ind
 	if err := checkID("scan id", scanID); err != nil {
 		return nil, err
 	}
+	in, err := prepareIndications(scanID, inds)
+	if err != nil {
+		return nil, err
+	}
+	var ids []string
+	err = ss.s.write(ctx, ss.actor, "add indications", func(w *writer) error {
+		if err := w.authorize(ctx, "record indications on scan "+quote(scanID), RoleLevel2, RoleLevel3); err != nil {
+			return err
+		}
+		var werr error
+		ids, werr = w.addIndications(ctx, scanID, in)
+		return werr
+	})
+	if err != nil {
+		return nil, err
+	}
+	return ids, nil
+}
+
+// RecordExamination records the examination of one scan in a single
+// transaction: the component (registered first when comp is not nil), the
+// scan file, and the indications found on it (possibly none), after which
+// the component's status is examined. Either all of it is recorded or
+// none, so an interrupted batch never leaves a scan without its result.
+// Level II and III. It returns the new indication IDs in input order.
+func (ss *Session) RecordExamination(ctx context.Context, comp *Component, sc Scan, inds []Indication) ([]string, error) {
+	if comp != nil {
+		if err := checkComponents([]Component{*comp}); err != nil {
+			return nil, err
+		}
+	}
+	if err := checkScan(sc); err != nil {
+		return nil, err
+	}
+	in, err := prepareIndications(sc.ID, inds)
+	if err != nil {
+		return nil, err
+	}
+	var ids []string
+	err = ss.s.write(ctx, ss.actor, "record examination", func(w *writer) error {
+		if err := w.authorize(ctx, "record the examination of scan "+quote(sc.ID), RoleLevel2, RoleLevel3); err != nil {
+			return err
+		}
+		if comp != nil {
+			if err := w.addComponents(ctx, []Component{*comp}); err != nil {
+				return err
+			}
+		}
+		if err := w.addScan(ctx, sc); err != nil {
+			return err
+		}
+		var werr error
+		ids, werr = w.addIndications(ctx, sc.ID, in)
+		return werr
+	})
+	if err != nil {
+		return nil, err
+	}
+	return ids, nil
+}
+
+// prepareIndications copies and validates indications to record, with
+// the defaults of an automatic first call.
+func prepareIndications(scanID string, inds []Indication) ([]Indication, error) {
 	in := make([]Indication, len(inds))
 	copy(in, inds)
 	for i := range in {
@@ -435,58 +523,53 @@ func (ss *Session) AddIndications(ctx context.Context, scanID string, inds []Ind
 			return nil, fmt.Errorf("scan %s: %w", quote(scanID), err)
 		}
 	}
+	return in, nil
+}
+
+func (w *writer) addIndications(ctx context.Context, scanID string, in []Indication) ([]string, error) {
 	ids := make([]string, len(in))
-	err := ss.s.write(ctx, ss.actor, "add indications", func(w *writer) error {
-		if err := w.authorize(ctx, "record indications on scan "+quote(scanID), RoleLevel2, RoleLevel3); err != nil {
-			return err
-		}
-		var comp string
-		err := w.tx.QueryRowContext(ctx, "SELECT component_id FROM scans WHERE scan_id = ?", scanID).Scan(&comp)
-		if errors.Is(err, sql.ErrNoRows) {
-			return fmt.Errorf("scan %s: %w", quote(scanID), ErrNotFound)
-		}
-		if err != nil {
-			return err
-		}
-		curves := map[string]bool{}
-		for _, ind := range in {
-			key := fmt.Sprintf("%s\x00%d", ind.CurveID, ind.CurveVersion)
-			if ind.CurveID == "" || curves[key] {
-				continue
-			}
-			if _, err := calibration(ctx, w.tx, ind.CurveID, ind.CurveVersion); err != nil {
-				return err
-			}
-			curves[key] = true
-		}
-		var n int
-		if err := w.tx.QueryRowContext(ctx, "SELECT count(*) FROM indications WHERE scan_id = ?", scanID).Scan(&n); err != nil {
-			return err
-		}
-		for i, ind := range in {
-			ind.ID = fmt.Sprintf("%s/%d", scanID, n+i+1)
-			ind.ScanID, ind.Component = scanID, comp
-			ind.CallVersion, ind.CalledBy, ind.CalledRole, ind.CalledAt, ind.Resolved = 1, w.actor.Name, w.actor.Role, w.at, false
-			if _, err := w.insert(ctx, tInds, []any{ind.ID, scanID, comp, ind.Channel, ind.StartSample, ind.EndSample,
-				ind.AxialM, ind.Location, ind.VppV, ind.PhaseRad, nullFloat(ind.DepthPct), nullFloat(ind.Uncertainty),
-				ind.Class, ind.Method, string(ind.Source), ind.CurveID, ind.CurveVersion, string(ind.Status), ind.Comment,
-				w.stamp(), w.actor.Name, string(w.actor.Role)},
-				change{kind: "indication", id: ind.ID, action: "record", after: ind}); err != nil {
-				return err
-			}
-			ids[i] = ind.ID
-		}
-		cur, err := component(ctx, w.tx, comp)
-		if err != nil {
-			return err
-		}
-		if cur.Status != StatusExamined || cur.scanID != scanID {
-			return w.setStatus(ctx, comp, StatusExamined, "", scanID)
-		}
-		return nil
-	})
+	var comp string
+	err := w.tx.QueryRowContext(ctx, "SELECT component_id FROM scans WHERE scan_id = ?", scanID).Scan(&comp)
+	if errors.Is(err, sql.ErrNoRows) {
+		return nil, fmt.Errorf("scan %s: %w", quote(scanID), ErrNotFound)
+	}
 	if err != nil {
 		return nil, err
+	}
+	curves := map[string]bool{}
+	for _, ind := range in {
+		key := fmt.Sprintf("%s\x00%d", ind.CurveID, ind.CurveVersion)
+		if ind.CurveID == "" || curves[key] {
+			continue
+		}
+		if _, err := calibration(ctx, w.tx, ind.CurveID, ind.CurveVersion); err != nil {
+			return nil, err
+		}
+		curves[key] = true
+	}
+	var n int
+	if err := w.tx.QueryRowContext(ctx, "SELECT count(*) FROM indications WHERE scan_id = ?", scanID).Scan(&n); err != nil {
+		return nil, err
+	}
+	for i, ind := range in {
+		ind.ID = fmt.Sprintf("%s/%d", scanID, n+i+1)
+		ind.ScanID, ind.Component = scanID, comp
+		ind.CallVersion, ind.CalledBy, ind.CalledRole, ind.CalledAt, ind.Resolved = 1, w.actor.Name, w.actor.Role, w.at, false
+		if _, err := w.insert(ctx, tInds, []any{ind.ID, scanID, comp, ind.Channel, ind.StartSample, ind.EndSample,
+			ind.AxialM, ind.Location, ind.VppV, ind.PhaseRad, nullFloat(ind.DepthPct), nullFloat(ind.Uncertainty),
+			ind.Class, ind.Method, string(ind.Source), ind.CurveID, ind.CurveVersion, string(ind.Status), ind.Comment,
+			w.stamp(), w.actor.Name, string(w.actor.Role)},
+			change{kind: "indication", id: ind.ID, action: "record", after: ind}); err != nil {
+			return nil, err
+		}
+		ids[i] = ind.ID
+	}
+	cur, err := component(ctx, w.tx, comp)
+	if err != nil {
+		return nil, err
+	}
+	if cur.Status != StatusExamined || cur.scanID != scanID {
+		return ids, w.setStatus(ctx, comp, StatusExamined, "", scanID)
 	}
 	return ids, nil
 }

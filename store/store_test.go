@@ -247,3 +247,45 @@ func TestBadInput(t *testing.T) {
 		})
 	}
 }
+
+// RecordExamination writes the component, the scan and its indications in
+// one transaction: a refused or failing part leaves none of them.
+func TestRecordExamination(t *testing.T) {
+	t.Parallel()
+	ctx := context.Background()
+	s, _ := build(t)
+	defer s.Close()
+	an := s.As(storetest.ActorOf(storetest.Primary))
+	sum := strings.Repeat("ab", 32)
+	comp := &store.Component{ID: "R9C9", Row: 9, Column: 9}
+	sc := store.Scan{ID: "S-R9C9", Component: "R9C9", Path: "scans/R9C9.csv", SizeBytes: 10, SHA256: sum, CalGroup: "G1"}
+	bad := []store.Indication{{Channel: "F1-diff", StartSample: 5, EndSample: 1, Class: "flaw-like", Method: "pp"}}
+	if _, err := an.RecordExamination(ctx, comp, sc, bad); err == nil {
+		t.Fatal("RecordExamination with an inverted window: no error")
+	}
+	if _, err := s.Component(ctx, "R9C9"); err == nil {
+		t.Error("a refused examination registered its component")
+	}
+	// A curve that is not recorded fails inside the transaction: nothing stays.
+	unknown := []store.Indication{{Channel: "F1-diff", StartSample: 1, EndSample: 5, Class: "flaw-like", Method: "pp", CurveID: "NOPE", CurveVersion: 1}}
+	if _, err := an.RecordExamination(ctx, comp, sc, unknown); err == nil {
+		t.Fatal("RecordExamination with an unknown curve: no error")
+	}
+	if _, err := s.Component(ctx, "R9C9"); err == nil {
+		t.Error("a failed examination registered its component")
+	}
+	ids, err := an.RecordExamination(ctx, comp, sc, []store.Indication{{Channel: "F1-diff", StartSample: 1, EndSample: 5, Class: "flaw-like", Method: "pp"}})
+	if err != nil || len(ids) != 1 || ids[0] != "S-R9C9/1" {
+		t.Fatalf("RecordExamination = %v, %v; want [S-R9C9/1]", ids, err)
+	}
+	if ok, err := s.IsRecorded(ctx, "R9C9"); !ok || err != nil {
+		t.Errorf("IsRecorded(R9C9) = %v, %v; want true", ok, err)
+	}
+	// Levels I may not record an examination.
+	if _, err := s.As(storetest.ActorOf(storetest.Acquirer)).RecordExamination(ctx, nil, store.Scan{ID: "S-X", Component: "R9C9", Path: "x.csv", SHA256: sum, CalGroup: "G1"}, nil); !errors.Is(err, store.ErrNotPermitted) {
+		t.Errorf("level1 RecordExamination: %v, want ErrNotPermitted", err)
+	}
+	if vr, err := s.Verify(ctx); err != nil || !vr.OK {
+		t.Errorf("Verify = %+v, %v", vr, err)
+	}
+}

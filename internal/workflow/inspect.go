@@ -645,23 +645,19 @@ func record(ctx context.Context, analyst *store.Session, known map[string]store.
 			Reason: fmt.Sprintf("the same scan (%s) as %s, which is recorded", r.scan.ID, path)})
 		return nil
 	}
+	var comp *store.Component
 	if _, ok := known[r.component]; !ok {
-		c := store.Component{ID: r.component, Row: r.row, Column: r.col}
-		if err := analyst.AddComponents(ctx, []store.Component{c}); err != nil {
-			return fmt.Errorf("%s: %w", r.file, err)
-		}
-		known[r.component] = c
+		comp = &store.Component{ID: r.component, Row: r.row, Column: r.col}
 	}
 	if r.err != nil {
+		if comp != nil {
+			if err := analyst.AddComponents(ctx, []store.Component{*comp}); err != nil {
+				return fmt.Errorf("%s: %w", r.file, err)
+			}
+			known[r.component] = *comp
+		}
 		sum.NotExamined = append(sum.NotExamined, NotExamined{Component: r.component, File: r.file, Reason: r.err.Error()})
 		return analyst.MarkNotExamined(ctx, r.component, r.err.Error())
-	}
-	if _, ok := scans[r.scan.Path]; !ok {
-		if err := analyst.AddScan(ctx, r.scan); err != nil {
-			return fmt.Errorf("%s: %w", r.file, err)
-		}
-		scans[r.scan.Path] = r.scan
-		ids[r.scan.ID] = r.scan.Path
 	}
 	// Landmarks (supports, tubesheets) found by the analysis are the
 	// reference points of the indications' locations, not indications:
@@ -674,8 +670,21 @@ func record(ctx context.Context, analyst *store.Session, known map[string]store.
 		}
 		recs = append(recs, toStore(&r.inds[i]))
 	}
-	if _, err := analyst.AddIndications(ctx, scans[r.scan.Path].ID, recs); err != nil {
-		return fmt.Errorf("%s: %w", r.file, err)
+	if rec, ok := scans[r.scan.Path]; ok {
+		// Recorded by an earlier run that stopped before its result.
+		if _, err := analyst.AddIndications(ctx, rec.ID, recs); err != nil {
+			return fmt.Errorf("%s: %w", r.file, err)
+		}
+	} else {
+		// The component, the scan and its result in one transaction.
+		if _, err := analyst.RecordExamination(ctx, comp, r.scan, recs); err != nil {
+			return fmt.Errorf("%s: %w", r.file, err)
+		}
+		if comp != nil {
+			known[r.component] = *comp
+		}
+		scans[r.scan.Path] = r.scan
+		ids[r.scan.ID] = r.scan.Path
 	}
 	sum.Examined++
 	return nil
