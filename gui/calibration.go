@@ -171,10 +171,16 @@ func (d *CalibrationDesk) refresh() {
 	if msg != "" && d.status != nil {
 		d.status(msg, isErr)
 	}
-	if cv.CanApprove() {
+	switch {
+	case det != nil && det.State == "approved":
+		d.approve.SetText("approved")
+		d.approve.Disable()
+	case cv.CanApprove():
 		d.approve.SetText("approve as Level III")
-	} else {
+		d.approve.Enable()
+	default:
 		d.approve.SetText("approve (needs Level III)")
+		d.approve.Enable()
 	}
 }
 
