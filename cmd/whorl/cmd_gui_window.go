@@ -4,7 +4,9 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
+	"runtime"
 
 	"fyne.io/fyne/v2"
 	"fyne.io/fyne/v2/app"
@@ -20,7 +22,17 @@ import (
 // startGUI opens the window, signs the person in when the environment did
 // not name them, opens the inspection in the background and runs the
 // window until it is closed or ctx is cancelled.
-func startGUI(ctx context.Context, e *env, c *guiConfig) error {
+func startGUI(ctx context.Context, e *env, c *guiConfig) (err error) {
+	if runtime.GOOS != "darwin" && runtime.GOOS != "windows" && e.getenv("DISPLAY") == "" && e.getenv("WAYLAND_DISPLAY") == "" {
+		return errors.New("no display: set DISPLAY (X11) or WAYLAND_DISPLAY, or run under xvfb-run for a virtual one")
+	}
+	// The desktop driver panics when it cannot open the display: report
+	// that as an error.
+	defer func() {
+		if r := recover(); r != nil {
+			err = fmt.Errorf("the desktop window could not start: %v", r)
+		}
+	}()
 	a := app.NewWithID("org.whorl.workstation")
 	variant := gui.Dark
 	if c.theme == "light" {
