@@ -49,7 +49,7 @@ type CalibrationDesk struct {
 	located  []viewmodel.LocatedFlaw
 	checks   *widget.Label
 	events   *widget.Label
-	reason   *widget.Entry
+	reason   *escEntry
 	approve  *widget.Button
 	message  *widget.Label
 	ids      []string
@@ -105,7 +105,7 @@ func (d *CalibrationDesk) build() {
 		},
 		func(i widget.ListItemID, o fyne.CanvasObject) { o.(*widget.Label).SetText(d.flawRows[i]) })
 	d.flaws.OnSelected = func(i widget.ListItemID) { d.showFlaw(i) }
-	d.reason = widget.NewEntry()
+	d.reason = newEscEntry()
 	d.reason.SetPlaceHolder("reason for approval (recorded)")
 	d.approve = widget.NewButton("approve as Level III", func() { d.cv.Approve(d.reason.Text) })
 	d.approve.Importance = widget.HighImportance

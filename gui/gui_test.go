@@ -176,6 +176,16 @@ func TestReviewDesk(t *testing.T) {
 	if p := s.WS.Plane(); p.RotationRad != 0 || !s.WS.AutoSpan() {
 		t.Errorf("'0' left %+v, auto %v", p, s.WS.AutoSpan())
 	}
+	// Typing in the search field filters the list; Esc gives the keys back.
+	w.Canvas().Focus(s.Review.search)
+	test.Type(s.Review.search, "t05")
+	if n := len(s.WS.Components()); n != 1 {
+		t.Errorf("search t05 lists %d components, want 1", n)
+	}
+	s.Review.search.TypedKey(&fyne.KeyEvent{Name: fyne.KeyEscape})
+	if f := w.Canvas().Focused(); f != nil {
+		t.Errorf("focus after Esc: %v, want none", f)
+	}
 	capture(t, w, "review-after-keys")
 }
 

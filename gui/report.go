@@ -26,7 +26,7 @@ type ReportDesk struct {
 
 	Content fyne.CanvasObject
 
-	dir    *widget.Entry
+	dir    *escEntry
 	export *widget.Button
 	result *widget.Label
 	status func(string, bool)
@@ -40,7 +40,7 @@ type ReportDesk struct {
 // NewReportDesk builds the report desk; dir is the suggested output folder.
 func NewReportDesk(src viewmodel.Source, win fyne.Window, dir string, status func(string, bool)) *ReportDesk {
 	d := &ReportDesk{src: src, win: win, status: status, post: fyne.Do}
-	d.dir = widget.NewEntry()
+	d.dir = newEscEntry()
 	d.dir.SetText(dir)
 	d.export = widget.NewButton("export report…", d.confirm)
 	d.export.Importance = widget.HighImportance

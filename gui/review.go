@@ -40,7 +40,7 @@ type Review struct {
 
 	Content fyne.CanvasObject
 
-	search     *widget.Entry
+	search     *escEntry
 	filter     *widget.Select
 	list       *widget.List
 	listCount  *widget.Label
@@ -74,7 +74,7 @@ func NewReview(ws *viewmodel.Workstation, th *Theme, win fyne.Window, status fun
 func (r *Review) build() {
 	ws := r.ws
 	// Component column.
-	r.search = widget.NewEntry()
+	r.search = newEscEntry()
 	r.search.SetPlaceHolder("find tube or group")
 	r.search.OnChanged = func(s string) { ws.SetSearch(s) }
 	opts := []string{"all statuses"}
