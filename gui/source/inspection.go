@@ -48,7 +48,8 @@ type Inspection struct {
 	mu     sync.Mutex
 	scans  map[string]store.Scan // newest scan per component
 	cals   map[string]calEntry   // by group
-	tubes  map[string]*tubeData  // opened components
+	tubes  map[string]*tubeData  // opened components, at most keepTubes
+	opened []string              // their ids, oldest first
 	closed bool
 	now    func() time.Time
 }
@@ -272,6 +273,11 @@ func (in *Inspection) Tube(ctx context.Context, id string) (*viewmodel.Tube, err
 	td.tube = t
 	in.mu.Lock()
 	in.tubes[id] = td
+	in.opened = append(in.opened, id)
+	for len(in.opened) > keepTubes {
+		delete(in.tubes, in.opened[0])
+		in.opened = in.opened[1:]
+	}
 	in.mu.Unlock()
 	return t, nil
 }
@@ -284,6 +290,10 @@ func (in *Inspection) resolve(path string) string {
 	}
 	return filepath.Join(filepath.Dir(in.st.Path()), path)
 }
+
+// keepTubes is the number of opened components kept in memory (about
+// 1 MB each for a 20 m tube with eight channels and a mix).
+const keepTubes = 24
 
 // calibrated returns a copy of raw with every channel and mix the
 // calibration sets up in calibrated volts (analysis.Analyzer.Calibrated:
