@@ -203,7 +203,7 @@ func (in *Inspection) Components(ctx context.Context) ([]viewmodel.Component, er
 		}
 		open := 0
 		for _, ind := range inds {
-			if ind.Class == string(analysis.ClassFlaw) || ind.Source == store.SourceAnalyst || ind.Class == string(analysis.ClassReview) {
+			if listed(ind) {
 				vc.Calls++
 				if ind.Status == store.CallProposed {
 					open++
@@ -419,9 +419,17 @@ func curveUncertainty(cv *calibrate.Curve) float64 {
 	return math.Sqrt(s / float64(len(cv.LOOResiduals)))
 }
 
+// listed reports whether an indication is one an analyst acts on:
+// flaw-like, for review, marked by an analyst, or already called by a
+// person (so that a retyped call stays in the list). Other landmark,
+// geometry, deposit and noise indications stay in the record unlisted.
+func listed(ind store.Indication) bool {
+	return ind.Class == string(analysis.ClassFlaw) || ind.Class == string(analysis.ClassReview) ||
+		ind.Source == store.SourceAnalyst || ind.CallVersion > 1
+}
+
 // Calls implements viewmodel.Source: the indications an analyst acts on
-// (flaw-like, for review, and analyst calls); landmarks, geometry and
-// noise indications stay in the record but are not listed.
+// (see listed).
 func (in *Inspection) Calls(ctx context.Context, component string) ([]viewmodel.Call, error) {
 	inds, err := in.st.Indications(ctx, component)
 	if err != nil {
@@ -429,7 +437,7 @@ func (in *Inspection) Calls(ctx context.Context, component string) ([]viewmodel.
 	}
 	var out []viewmodel.Call
 	for _, ind := range inds {
-		if !(ind.Class == string(analysis.ClassFlaw) || ind.Class == string(analysis.ClassReview) || ind.Source == store.SourceAnalyst) {
+		if !listed(ind) {
 			continue
 		}
 		c := viewmodel.Call{ID: ind.ID, Component: ind.Component, Origin: string(ind.Source), Type: ind.Class, Channel: ind.Channel,

@@ -69,11 +69,30 @@ func TestDemoRecord(t *testing.T) {
 	if err := in.Decide(ctx, c.ID, viewmodel.Decision{Kind: viewmodel.Accept}); err != nil {
 		t.Fatal(err)
 	}
+	if err := in.Decide(ctx, c.ID, viewmodel.Decision{Kind: viewmodel.Retype, Type: "deposit", Comment: "low-frequency response"}); err != nil {
+		t.Fatalf("retype: %v", err)
+	}
+	if err := in.Decide(ctx, c.ID, viewmodel.Decision{Kind: viewmodel.Comment, Comment: "seen on the 100 kHz channel too"}); err != nil {
+		t.Fatalf("comment: %v", err)
+	}
+	after, _ := in.Calls(ctx, withCalls)
+	found := false
+	for _, a := range after {
+		if a.ID == c.ID {
+			found = true
+			if a.State != viewmodel.Accepted || a.Type != "deposit" || a.Comment != "seen on the 100 kHz channel too" {
+				t.Errorf("call after accept, retype and comment: %+v", a)
+			}
+		}
+	}
+	if !found {
+		t.Errorf("call %s left the list after it was retyped", c.ID)
+	}
 	ev, err := in.Events(ctx, c.ID)
 	if err != nil {
 		t.Fatal(err)
 	}
-	found := false
+	found = false
 	for _, e := range ev {
 		if e.Actor == l2.Name && e.Role == "level2" {
 			found = true
