@@ -285,6 +285,11 @@ func TestModelAndReportDesks(t *testing.T) {
 		t.Errorf("export of the test inspection: err %v, text %q", err, s.Report.result.Text)
 	}
 	capture(t, w, "report")
+	s.toggleTheme()
+	if s.Theme.Variant != Light {
+		t.Errorf("theme after toggling dark: %v, want light", s.Theme.Variant)
+	}
+	capture(t, w, "report-light")
 	if !strings.Contains(AboutText(), Caution) {
 		t.Error("about text lacks the caution")
 	}
