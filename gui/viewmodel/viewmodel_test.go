@@ -425,3 +425,23 @@ func TestDecimateEnvelopeEqualsDecimate(t *testing.T) {
 		})
 	}
 }
+
+// FuzzParseRole: any text parses to a known role or an error naming the
+// accepted roles, and every accepted role parses back to itself.
+func FuzzParseRole(f *testing.F) {
+	for _, s := range []string{"level1", "L2", " iii ", "QA", "boss", "", "level4"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		r, err := viewmodel.ParseRole(s)
+		if err != nil {
+			if !strings.Contains(err.Error(), "expected level1, level2, level3 or qa") {
+				t.Fatalf("ParseRole(%q) error %q does not list the roles", s, err)
+			}
+			return
+		}
+		if back, err := viewmodel.ParseRole(string(r)); err != nil || back != r {
+			t.Fatalf("ParseRole(%q) = %q, which parses back to %q, %v", s, r, back, err)
+		}
+	})
+}
