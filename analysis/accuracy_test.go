@@ -51,7 +51,7 @@ func analyseInspection(t *testing.T, cfg synth.Config, procPath string) (analysi
 		if err != nil {
 			t.Fatal(err)
 		}
-		cal, err := calibrate.Build(&std, proc, s, calibrate.BuildOptions{Builder: "A. Analyst", At: at})
+		cal, err := calibrate.Build(&std, proc, s, calibrate.BuildOptions{Builder: "analyst-2a", At: at})
 		if err != nil {
 			t.Fatalf("group %d: %v", gi, err)
 		}

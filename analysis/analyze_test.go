@@ -31,7 +31,7 @@ func fixture(t testing.TB) (*calibrate.Calibration, *calibrate.Procedure, *acqui
 	m := calibtest.Demo()
 	std := calibtest.Standard()
 	ss := m.Scan("STD", m.StandardFeatures(std), rand.New(rand.NewPCG(1, 1)))
-	cal, err := calibrate.Build(std, proc, ss, calibrate.BuildOptions{Builder: "A. Analyst", At: time.Date(2026, 10, 14, 6, 0, 0, 0, time.UTC)})
+	cal, err := calibrate.Build(std, proc, ss, calibrate.BuildOptions{Builder: "analyst-2a", At: time.Date(2026, 10, 14, 6, 0, 0, 0, time.UTC)})
 	if err != nil {
 		t.Fatal(err)
 	}

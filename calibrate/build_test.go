@@ -34,7 +34,7 @@ func fixtureScan(m calibtest.Model, std *calibrate.Standard, seed uint64) *acqui
 func build(t testing.TB, m calibtest.Model, seed uint64) *calibrate.Calibration {
 	t.Helper()
 	std := calibtest.Standard()
-	cal, err := calibrate.Build(std, mustProcedure(t), fixtureScan(m, std, seed), calibrate.BuildOptions{Builder: "A. Analyst", At: time.Date(2026, 10, 14, 7, 0, 0, 0, time.UTC)})
+	cal, err := calibrate.Build(std, mustProcedure(t), fixtureScan(m, std, seed), calibrate.BuildOptions{Builder: "analyst-2a", At: time.Date(2026, 10, 14, 7, 0, 0, 0, time.UTC)})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -155,7 +155,7 @@ func TestGroupCheck(t *testing.T) {
 		}
 		s := fixtureScan(d, std, 11)
 		s.Meta.Start = start
-		c, err := calibrate.Build(std, proc, s, calibrate.BuildOptions{Builder: "A. Analyst", At: at, Opening: open})
+		c, err := calibrate.Build(std, proc, s, calibrate.BuildOptions{Builder: "analyst-2a", At: at, Opening: open})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -205,7 +205,7 @@ func TestApprove(t *testing.T) {
 	if err := cal.Approve("B. Level3", "level2", at); !errors.Is(err, calibrate.ErrNotPermitted) {
 		t.Errorf("level2 approval: %v, want ErrNotPermitted", err)
 	}
-	if err := cal.Approve("A. Analyst", "level3", at); !errors.Is(err, calibrate.ErrNotPermitted) {
+	if err := cal.Approve("analyst-2a", "level3", at); !errors.Is(err, calibrate.ErrNotPermitted) {
 		t.Errorf("builder approving own calibration: %v, want ErrNotPermitted", err)
 	}
 	if cal.Version != 1 || cal.Status != calibrate.StatusDraft || cal.Hash != h1 {

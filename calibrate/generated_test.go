@@ -21,7 +21,7 @@ func demoCalibration(t *testing.T, g *synth.Generator, proc *calibrate.Procedure
 	if err != nil {
 		t.Fatal(err)
 	}
-	cal, err := calibrate.Build(&std, proc, s, calibrate.BuildOptions{Builder: "A. Analyst", At: time.Date(2026, 10, 14, 6, 0, 0, 0, time.UTC), Opening: open})
+	cal, err := calibrate.Build(&std, proc, s, calibrate.BuildOptions{Builder: "analyst-2a", At: time.Date(2026, 10, 14, 6, 0, 0, 0, time.UTC), Opening: open})
 	if err != nil {
 		t.Fatalf("group %d closing %v: %v", gi, closing, err)
 	}

@@ -26,7 +26,7 @@ func TestDemoInspection(t *testing.T) {
 	ctx := context.Background()
 	dir := t.TempDir()
 	now := func() time.Time { return time.Date(2026, 10, 14, 18, 0, 0, 0, time.UTC) }
-	l2 := viewmodel.Actor{Name: "Rosa Quill", Role: viewmodel.Level2}
+	l2 := viewmodel.Actor{Name: "analyst-2b", Role: viewmodel.Level2}
 	src, err := source.OpenDemo(ctx, dir, l2, now, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -104,7 +104,7 @@ func TestDemoInspection(t *testing.T) {
 	s.Close()
 	src.Close()
 
-	l3 := viewmodel.Actor{Name: "Tamsin Oakes", Role: viewmodel.Level3}
+	l3 := viewmodel.Actor{Name: "reviewer-3t", Role: viewmodel.Level3}
 	src3, err := source.OpenDemo(ctx, dir, l3, now, nil)
 	if err != nil {
 		t.Fatal(err)

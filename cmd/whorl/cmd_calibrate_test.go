@@ -30,7 +30,7 @@ func TestCalibrateAndAnalyzeCommands(t *testing.T) {
 	cal1, cal2 := filepath.Join(out, "cal1.json"), filepath.Join(out, "cal2.json")
 	png := filepath.Join(out, "curves.png")
 
-	code, stdout, stderr := runCmd(t, "calibrate", "--standard", p("standard.json"), "--procedure", demoProc, "--builder", "A. Analyst",
+	code, stdout, stderr := runCmd(t, "calibrate", "--standard", p("standard.json"), "--procedure", demoProc, "--builder", "analyst-2a",
 		"--closing", p("calibration", "CG01-close.csv"), "--scans", p("scans"), "-o", cal1, "--plot", png, p("calibration", "CG01-open.csv"))
 	if code != exitOK {
 		t.Fatalf("calibrate CG01: exit %d\n%s%s", code, stdout, stderr)
@@ -45,7 +45,7 @@ func TestCalibrateAndAnalyzeCommands(t *testing.T) {
 	}
 
 	// The drifted group: the check fails (exit 4), its tubes are listed.
-	code, stdout, stderr = runCmd(t, "calibrate", "--standard", p("standard.json"), "--procedure", demoProc, "--builder", "A. Analyst",
+	code, stdout, stderr = runCmd(t, "calibrate", "--standard", p("standard.json"), "--procedure", demoProc, "--builder", "analyst-2a",
 		"--closing", p("calibration", "CG02-close.csv"), "--scans", p("scans"), "--group-out", filepath.Join(out, "cg02.json"), "-o", cal2, p("calibration", "CG02-open.csv"))
 	if code != exitCheck {
 		t.Fatalf("calibrate CG02 (drifted): exit %d, want %d\n%s%s", code, exitCheck, stdout, stderr)
@@ -94,7 +94,7 @@ func TestCalibrateAndAnalyzeCommands(t *testing.T) {
 	for _, c := range []struct {
 		person, role string
 		want         int
-	}{{"A. Analyst", "level3", exitRefused}, {"B. Senior", "level2", exitRefused}, {"B. Senior", "level3", exitOK}} {
+	}{{"analyst-2a", "level3", exitRefused}, {"reviewer-3c", "level2", exitRefused}, {"reviewer-3c", "level3", exitOK}} {
 		code, stdout, stderr = runCmd(t, "calibrate", "approve", "--person", c.person, "--role", c.role, "-o", v2, cal1)
 		if code != c.want {
 			t.Errorf("approve by %s (%s): exit %d, want %d\n%s%s", c.person, c.role, code, c.want, stdout, stderr)

@@ -47,7 +47,7 @@ with CGO_ENABLED=0 or -tags nogui has every other command but not this one.
 
 Examples:
   whorl gui
-  WHORL_USER="A. Analyst" WHORL_ROLE=level2 whorl gui inspection.db
+  WHORL_USER="analyst-2a" WHORL_ROLE=level2 whorl gui inspection.db
   whorl gui --desk calibration --theme light --size 1366x768
   whorl gui scans/R03C017.csv scans/R03C018.csv`,
 		setFlags: func(fs *flag.FlagSet) {

@@ -51,11 +51,11 @@ func TestGUIIdentityFromEnvironment(t *testing.T) {
 		signIn           bool
 		wantErr          string
 	}{
-		{"both given", "Rosa Quill", "level2", false, ""},
-		{"role in capitals", "Tamsin Oakes", "LEVEL3", false, ""},
+		{"both given", "analyst-2b", "level2", false, ""},
+		{"role in capitals", "reviewer-3t", "LEVEL3", false, ""},
 		{"no user: sign in", "", "level2", true, ""},
-		{"no role: sign in", "Rosa Quill", "", true, ""},
-		{"unknown role", "Rosa Quill", "boss", false, `WHORL_ROLE: role "boss": expected level1, level2, level3 or qa`},
+		{"no role: sign in", "analyst-2b", "", true, ""},
+		{"unknown role", "analyst-2b", "boss", false, `WHORL_ROLE: role "boss": expected level1, level2, level3 or qa`},
 	} {
 		t.Run(tc.name, func(t *testing.T) {
 			t.Parallel()

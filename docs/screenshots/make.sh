@@ -8,7 +8,7 @@ out=docs/screenshots
 bin=${WHORL_BIN:-/tmp/whorl-screens}
 demo=${WHORL_DEMO_DIR:-/tmp/whorl-screens-demo}
 go build -o "$bin" ./cmd/whorl
-export LANG=en_US.UTF-8 WHORL_USER="Rosa Quill" WHORL_ROLE=level2
+export LANG=en_US.UTF-8 WHORL_USER="analyst-2b" WHORL_ROLE=level2
 shot() { # name size desk theme [extra env]
   name=$1 size=$2 desk=$3 theme=$4; shift 4
   case "$name" in ${ONLY:-*}) ;; *) return 0 ;; esac

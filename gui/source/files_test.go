@@ -29,7 +29,7 @@ func TestFilesShowScansWithoutRecord(t *testing.T) {
 		}
 		paths = append(paths, p)
 	}
-	actor := viewmodel.Actor{Name: "Rosa Quill", Role: viewmodel.Level2}
+	actor := viewmodel.Actor{Name: "analyst-2b", Role: viewmodel.Level2}
 	src, err := Open(ctx, Options{Paths: paths, Actor: actor})
 	if err != nil {
 		t.Fatal(err)

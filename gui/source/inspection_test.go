@@ -20,7 +20,7 @@ func TestDemoRecord(t *testing.T) {
 	}
 	ctx := context.Background()
 	dir := t.TempDir()
-	l2 := viewmodel.Actor{Name: "Rosa Quill", Role: viewmodel.Level2}
+	l2 := viewmodel.Actor{Name: "analyst-2b", Role: viewmodel.Level2}
 	in, err := OpenDemo(ctx, dir, l2, fixedNow, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -119,7 +119,7 @@ func TestDemoRecord(t *testing.T) {
 	}
 	in.Close()
 
-	l3 := viewmodel.Actor{Name: "Tamsin Oakes", Role: viewmodel.Level3}
+	l3 := viewmodel.Actor{Name: "reviewer-3t", Role: viewmodel.Level3}
 	in3, err := OpenDemo(ctx, dir, l3, fixedNow, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -129,7 +129,7 @@ func TestDemoRecord(t *testing.T) {
 		t.Fatalf("Level III approval: %v", err)
 	}
 	cals, _ = in3.Calibrations(ctx)
-	if cals[0].State != string(store.CalApproved) || !strings.Contains(cals[0].ApprovedBy, "Tamsin") {
+	if cals[0].State != string(store.CalApproved) || !strings.Contains(cals[0].ApprovedBy, "reviewer-3t") {
 		t.Errorf("after approval: %+v", cals[0])
 	}
 }

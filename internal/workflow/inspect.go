@@ -52,8 +52,13 @@ type InspectOptions struct {
 	// Analyst builds calibrations and records the analysis (Level II or III).
 	Analyst store.Person
 	// Reviewer, when set, is a Level III who approves each calibration
-	// as it is recorded, and registers the reference standard.
+	// as it is recorded. Without one, calibrations stay proposed until a
+	// Level III approves them in the record.
 	Reviewer *store.Person
+	// Registrar, when set, creates a new record and registers the analyst
+	// and the reviewer (a QA or Level III person); otherwise the reviewer
+	// does, or, with neither, the analyst creates the record alone.
+	Registrar *store.Person
 	// Jobs is the number of scans analysed at once (0: all cores).
 	Jobs int
 	// Now is the clock (time.Now when nil).
@@ -155,14 +160,19 @@ func Inspect(ctx context.Context, opt InspectOptions) (*Summary, error) {
 		return nil, err
 	}
 	defer st.Close()
-	analyst := st.As(store.Actor{Name: opt.Analyst.Name, Role: opt.Analyst.Role})
+	analyst := st.As(actorOf(opt.Analyst))
 	var reviewer *store.Session
 	if opt.Reviewer != nil {
-		reviewer = st.As(store.Actor{Name: opt.Reviewer.Name, Role: opt.Reviewer.Role})
+		reviewer = st.As(actorOf(*opt.Reviewer))
+	}
+	// The reference standard and the procedure go into the record once.
+	stdRecorded, err := recordDocuments(ctx, st, analyst, opt)
+	if err != nil {
+		return nil, err
 	}
 
 	// Calibrations of every group, from the opening scans.
-	groups, err := buildGroups(ctx, st, analyst, reviewer, cals, opt, now, progress)
+	groups, err := buildGroups(ctx, st, analyst, reviewer, stdRecorded, cals, opt, now, progress)
 	if err != nil {
 		return nil, err
 	}
@@ -190,21 +200,32 @@ func openOrCreate(ctx context.Context, opt InspectOptions, now func() time.Time)
 	} else if !errors.Is(err, os.ErrNotExist) {
 		return nil, err
 	}
-	creator := opt.Analyst
-	if opt.Reviewer != nil {
-		creator = *opt.Reviewer
-	}
+	creator := registrar(opt)
 	st, err := store.Create(ctx, opt.DBPath, opt.Inspection, creator, store.WithClock(now))
 	if err != nil {
 		return nil, err
 	}
-	if opt.Reviewer != nil {
-		if err := st.As(actorOf(creator)).AddPerson(ctx, opt.Analyst); err != nil {
+	for _, p := range []*store.Person{&opt.Analyst, opt.Reviewer} {
+		if p == nil || p.Name == creator.Name {
+			continue
+		}
+		if err := st.As(actorOf(creator)).AddPerson(ctx, *p); err != nil {
 			st.Close()
 			return nil, err
 		}
 	}
 	return st, nil
+}
+
+// registrar is who creates a new record and registers the others.
+func registrar(opt InspectOptions) store.Person {
+	switch {
+	case opt.Registrar != nil:
+		return *opt.Registrar
+	case opt.Reviewer != nil:
+		return *opt.Reviewer
+	}
+	return opt.Analyst
 }
 
 func actorOf(p store.Person) store.Actor { return store.Actor{Name: p.Name, Role: p.Role} }
@@ -301,7 +322,7 @@ type group struct {
 	mu          sync.Mutex
 }
 
-func buildGroups(ctx context.Context, st *store.Store, analyst, reviewer *store.Session, cals []calScan, opt InspectOptions, now func() time.Time, progress ProgressFunc) (map[string]*group, error) {
+func buildGroups(ctx context.Context, st *store.Store, analyst, reviewer *store.Session, stdRecorded bool, cals []calScan, opt InspectOptions, now func() time.Time, progress ProgressFunc) (map[string]*group, error) {
 	groups := map[string]*group{}
 	for i := range cals {
 		c := &cals[i]
@@ -328,26 +349,6 @@ func buildGroups(ctx context.Context, st *store.Store, analyst, reviewer *store.
 		}
 	}
 
-	// The reference standard is recorded once, by the Level III.
-	stdBody, err := json.Marshal(opt.Standard)
-	if err != nil {
-		return nil, err
-	}
-	if reviewer != nil {
-		docs, err := st.Standards(ctx)
-		if err != nil {
-			return nil, err
-		}
-		have := false
-		for _, d := range docs {
-			have = have || d.ID == opt.Standard.Serial
-		}
-		if !have {
-			if _, err := reviewer.AddStandard(ctx, opt.Standard.Serial, stdBody); err != nil {
-				return nil, err
-			}
-		}
-	}
 	recorded, err := st.Calibrations(ctx)
 	if err != nil {
 		return nil, err
@@ -373,13 +374,13 @@ func buildGroups(ctx context.Context, st *store.Store, analyst, reviewer *store.
 			g.closing = closing
 		}
 		// Record (once) and approve.
-		v, err := recordCalibration(ctx, analyst, reviewer, recorded, cal, opt)
+		v, err := recordCalibration(ctx, analyst, reviewer, stdRecorded, recorded, cal, opt)
 		if err != nil {
 			return nil, fmt.Errorf("group %s: %w", name, err)
 		}
 		g.calVersion = v
 		if g.closing != nil {
-			if _, err := recordCalibration(ctx, analyst, reviewer, recorded, g.closing, opt); err != nil {
+			if _, err := recordCalibration(ctx, analyst, reviewer, stdRecorded, recorded, g.closing, opt); err != nil {
 				return nil, fmt.Errorf("group %s: %w", name, err)
 			}
 		}
@@ -393,10 +394,51 @@ func buildGroups(ctx context.Context, st *store.Store, analyst, reviewer *store.
 	return groups, nil
 }
 
+// recordDocuments records the reference standard (by a QA or Level III
+// person: the registrar or the reviewer, when there is one) and the
+// procedure (as the analyst's processing chain) unless the record holds
+// them already. It reports whether the standard is in the record.
+func recordDocuments(ctx context.Context, st *store.Store, analyst *store.Session, opt InspectOptions) (bool, error) {
+	stds, err := st.Standards(ctx)
+	if err != nil {
+		return false, err
+	}
+	have := false
+	for _, d := range stds {
+		have = have || d.ID == opt.Standard.Serial
+	}
+	if r := registrar(opt); !have && (r.Role == store.RoleLevel3 || r.Role == store.RoleQA) {
+		body, err := json.Marshal(opt.Standard)
+		if err != nil {
+			return false, err
+		}
+		if _, err := st.As(actorOf(r)).AddStandard(ctx, opt.Standard.Serial, body); err != nil {
+			return false, err
+		}
+		have = true
+	}
+	chains, err := st.Chains(ctx)
+	if err != nil {
+		return false, err
+	}
+	id := "procedure " + opt.Procedure.ID + " rev " + opt.Procedure.Revision
+	for _, c := range chains {
+		if c.ID == id {
+			return have, nil
+		}
+	}
+	body, err := json.Marshal(opt.Procedure)
+	if err != nil {
+		return false, err
+	}
+	_, err = analyst.AddChain(ctx, id, body)
+	return have, err
+}
+
 // recordCalibration records cal unless a calibration with the same ID and
 // content hash is already recorded, approves it when a reviewer is given,
 // and returns its recorded version.
-func recordCalibration(ctx context.Context, analyst, reviewer *store.Session, recorded []store.Calibration, cal *calibrate.Calibration, opt InspectOptions) (int, error) {
+func recordCalibration(ctx context.Context, analyst, reviewer *store.Session, stdRecorded bool, recorded []store.Calibration, cal *calibrate.Calibration, opt InspectOptions) (int, error) {
 	for _, r := range recorded {
 		if r.ID == cal.ID && calibrationHash(r.Body) == cal.Hash {
 			return r.Version, nil
@@ -407,7 +449,7 @@ func recordCalibration(ctx context.Context, analyst, reviewer *store.Session, re
 		return 0, err
 	}
 	std := ""
-	if reviewer != nil {
+	if stdRecorded {
 		std = opt.Standard.Serial
 	}
 	rc, err := analyst.RecordCalibration(ctx, store.Calibration{ID: cal.ID, Body: body, Standard: std, Note: "built from " + cal.ScanComponent})
