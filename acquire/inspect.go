@@ -53,9 +53,17 @@ func Inspect(s *Scan) []Problem {
 	out = append(out, axisProblems("time", s.TimeS, true)...)
 	out = append(out, axisProblems("position", s.PositionM, false)...)
 	if s.SampleRateHz > 0 && len(s.TimeS) > 1 {
+		// An encoder-triggered scan (one sampled on a position grid) takes
+		// its samples as fast as the probe moves: its sample rate is the
+		// nominal one at the nominal speed, and its time steps vary with the
+		// speed, so they are held to the speed tolerance instead.
+		tol := rateRelTol
+		if s.AxialStepM > 0 && len(s.PositionM) > 1 {
+			tol = speedRelTol
+		}
 		if med := medianStep(s.TimeS); med > 0 {
 			want := 1 / s.SampleRateHz
-			if math.Abs(med-want) > rateRelTol*want {
+			if math.Abs(med-want) > tol*want {
 				out = append(out, Problem{Kind: ProblemRate, Channel: "time", Index: -1,
 					Message: fmt.Sprintf("median time step %.6g s is %.6g Hz, but the sample rate is %.6g Hz", med, 1/med, s.SampleRateHz)})
 			}

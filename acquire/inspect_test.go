@@ -37,7 +37,12 @@ func TestInspect(t *testing.T) {
 				s.TimeS[i] += 5e-3
 			}
 		}, ProblemGap, 60, 1},
-		{"rate disagrees", func(s *Scan) { s.SampleRateHz = 1100 }, ProblemRate, -1, 0},
+		{"rate disagrees", func(s *Scan) { s.SampleRateHz, s.AxialStepM = 1100, 0 }, ProblemRate, -1, 0},
+		// On a position grid the time steps follow the probe's speed: a
+		// sample rate 5 % off the median step is the speed's variation,
+		// 20 % off is not.
+		{"position grid, rate 5 % off", func(s *Scan) { s.SampleRateHz = 1050 }, "", 0, 0},
+		{"position grid, rate 20 % off", func(s *Scan) { s.SampleRateHz = 1250 }, ProblemRate, -1, 0},
 		{"step disagrees", func(s *Scan) { s.AxialStepM = 2e-4 }, ProblemStep, -1, 0},
 		{"speed disagrees", func(s *Scan) { s.Meta.ProbeSpeedMPS = 0.5 }, ProblemSpeed, -1, 0},
 		{"constant channel", func(s *Scan) {
