@@ -1,6 +1,8 @@
 package reports
 
 import (
+	"bufio"
+	"bytes"
 	"encoding/csv"
 	"encoding/json"
 	"fmt"
@@ -9,6 +11,8 @@ import (
 	"strconv"
 	"strings"
 	"time"
+
+	"whorl/store"
 )
 
 // IndicationColumns are the columns of the indications CSV, in order
@@ -75,53 +79,127 @@ func writeCSV(w io.Writer, header []string, rows func(emit func([]string) error)
 // indication in order of recording. Fields are UTF-8, quoted where needed
 // (RFC 4180), records end in LF, and a line break inside a field is LF.
 func WriteIndicationsCSV(w io.Writer, in *Inspection) error {
+	return writeIndicationsCSV(w, memRecords(in))
+}
+
+func writeIndicationsCSV(w io.Writer, r *records) error {
+	reportID, inspID := r.head.ReportID, r.head.Record.ID
 	return writeCSV(w, IndicationColumns, func(emit func([]string) error) error {
-		for _, d := range in.Indications {
+		return r.eachIndication(func(d *Indication) error {
 			curveVer := ""
 			if d.CurveID != "" {
 				curveVer = strconv.Itoa(d.CurveVersion)
 			}
-			if err := emit([]string{
-				in.ReportID, in.Record.ID, d.ID, d.Component, d.ScanID, d.Channel,
+			return emit([]string{
+				reportID, inspID, d.ID, d.Component, d.ScanID, d.Channel,
 				strconv.Itoa(d.StartSample), strconv.Itoa(d.EndSample), fmtFloat(d.AxialM), d.Location,
 				fmtFloat(d.VppV), fmtFloat(d.PhaseRad), fmtFloat(degrees(d.PhaseRad)),
 				fmtOpt(d.DepthPct), fmtOpt(d.Uncertainty), d.Class, d.Method, string(d.Source), d.CurveID, curveVer,
 				string(d.Status), strconv.Itoa(d.CallVersion), strconv.FormatBool(d.Resolved), d.CalledBy,
 				string(d.CalledRole), fmtTime(d.CalledAt), d.Comment,
-			}); err != nil {
-				return err
-			}
-		}
-		return nil
+			})
+		})
 	})
 }
 
 // WriteRecordCSV writes the full record as CSV: its event log, one row per
 // event (EventColumns), each with the item before and after the change as
 // JSON, from which every item of the record can be rebuilt.
-func WriteRecordCSV(w io.Writer, in *Inspection) error {
+func WriteRecordCSV(w io.Writer, in *Inspection) error { return writeRecordCSV(w, memRecords(in)) }
+
+func writeRecordCSV(w io.Writer, r *records) error {
 	return writeCSV(w, EventColumns, func(emit func([]string) error) error {
-		for _, e := range in.Events {
-			if err := emit([]string{
+		return r.eachEvent(func(e *store.Event) error {
+			return emit([]string{
 				strconv.FormatInt(e.Seq, 10), fmtTime(e.At), e.Actor, string(e.Role), e.ItemKind, e.ItemID, e.Action,
 				e.Reason, string(e.Before), string(e.After), e.Table, strconv.FormatInt(e.Row, 10), e.RowHash,
 				e.PrevHash, e.Hash,
-			}); err != nil {
-				return err
-			}
-		}
-		return nil
+			})
+		})
 	})
 }
 
-func writeIndented(w io.Writer, v any) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	enc.SetEscapeHTML(false)
+// jsonObject writes an indented JSON object field by field, and an array
+// field element by element, with the bytes an encoding/json Encoder with
+// SetIndent("", "  ") and SetEscapeHTML(false) writes for the whole
+// object: each value is encoded on its own with the indentation of its
+// place, so only one element is held at a time.
+type jsonObject struct {
+	w      *bufio.Writer
+	buf    bytes.Buffer
+	val    *json.Encoder // a field's value: prefix of one level
+	elem   *json.Encoder // an array element: prefix of two levels
+	fields int
+}
+
+func newJSONObject(w io.Writer) *jsonObject {
+	o := &jsonObject{w: bufio.NewWriter(w)}
+	o.val, o.elem = json.NewEncoder(&o.buf), json.NewEncoder(&o.buf)
+	o.val.SetIndent("  ", "  ")
+	o.elem.SetIndent("    ", "  ")
+	o.val.SetEscapeHTML(false)
+	o.elem.SetEscapeHTML(false)
+	o.w.WriteByte('{')
+	return o
+}
+
+func (o *jsonObject) key(name string) {
+	if o.fields > 0 {
+		o.w.WriteByte(',')
+	}
+	o.fields++
+	o.w.WriteString("\n  \"" + name + "\": ")
+}
+
+func (o *jsonObject) encode(enc *json.Encoder, v any) error {
+	o.buf.Reset()
 	if err := enc.Encode(v); err != nil {
 		return fmt.Errorf("encode JSON: %w", err)
 	}
+	b := o.buf.Bytes()
+	_, err := o.w.Write(b[:len(b)-1]) // without the Encoder's newline
+	return err
+}
+
+// field writes the field name with the value v.
+func (o *jsonObject) field(name string, v any) error {
+	o.key(name)
+	return o.encode(o.val, v)
+}
+
+// array writes the field name with the array of the values each emits;
+// no value gives null when nullEmpty, else [].
+func (o *jsonObject) array(name string, nullEmpty bool, each func(emit func(v any) error) error) error {
+	o.key(name)
+	n := 0
+	err := each(func(v any) error {
+		if n == 0 {
+			o.w.WriteByte('[')
+		} else {
+			o.w.WriteByte(',')
+		}
+		n++
+		o.w.WriteString("\n    ")
+		return o.encode(o.elem, v)
+	})
+	if err != nil {
+		return err
+	}
+	switch {
+	case n > 0:
+		o.w.WriteString("\n  ]")
+	case nullEmpty:
+		o.w.WriteString("null")
+	default:
+		o.w.WriteString("[]")
+	}
 	return nil
+}
+
+// close ends the object and the document.
+func (o *jsonObject) close() error {
+	o.w.WriteString("\n}\n")
+	return o.w.Flush()
 }
 
 // IndicationsExport is the document WriteIndicationsJSON writes.
@@ -135,17 +213,67 @@ type IndicationsExport struct {
 // WriteIndicationsJSON writes every indication with its current call and
 // call history as an indented JSON document (IndicationsExport).
 func WriteIndicationsJSON(w io.Writer, in *Inspection) error {
-	inds := in.Indications
-	if inds == nil {
-		inds = []Indication{}
+	return writeIndicationsJSON(w, memRecords(in))
+}
+
+func writeIndicationsJSON(w io.Writer, r *records) error {
+	o := newJSONObject(w)
+	if err := o.field("report_id", r.head.ReportID); err != nil {
+		return err
 	}
-	return writeIndented(w, IndicationsExport{ReportID: in.ReportID, InspectionID: in.Record.ID, Generated: in.Generated, Indications: inds})
+	if err := o.field("inspection_id", r.head.Record.ID); err != nil {
+		return err
+	}
+	if err := o.field("generated", r.head.Generated); err != nil {
+		return err
+	}
+	if err := o.array("indications", false, eachIndication(r)); err != nil {
+		return err
+	}
+	return o.close()
+}
+
+func eachIndication(r *records) func(emit func(any) error) error {
+	return func(emit func(any) error) error {
+		return r.eachIndication(func(d *Indication) error { return emit(d) })
+	}
 }
 
 // WriteRecordJSON writes the full record (the whole Inspection, without
 // signal windows) as an indented JSON document.
-func WriteRecordJSON(w io.Writer, in *Inspection) error {
-	return writeIndented(w, in)
+func WriteRecordJSON(w io.Writer, in *Inspection) error { return writeRecordJSON(w, memRecords(in)) }
+
+func writeRecordJSON(w io.Writer, r *records) error {
+	h := r.head
+	o := newJSONObject(w)
+	for _, f := range []struct {
+		name string
+		v    any
+	}{
+		{"report_id", h.ReportID}, {"draft", h.Draft}, {"generated", h.Generated}, {"inspection", h.Record},
+		{"people", h.People}, {"components", h.Components}, {"scans", h.Scans}, {"chains", h.Chains},
+		{"standards", h.Standards}, {"calibrations", h.Calibrations}, {"group_checks", h.Groups},
+	} {
+		if err := o.field(f.name, f.v); err != nil {
+			return err
+		}
+	}
+	if err := o.array("indications", r.nilIndications, eachIndication(r)); err != nil {
+		return err
+	}
+	if err := o.field("releases", h.Releases); err != nil {
+		return err
+	}
+	err := o.array("events", r.nilEvents, func(emit func(any) error) error {
+		return r.eachEvent(func(e *store.Event) error { return emit(e) })
+	})
+	if err != nil {
+		return err
+	}
+	if err := o.field("chain", h.Chain); err != nil {
+		return err
+	}
+	return o.close()
 }
 
 // callLabel is the analyst call as shown in the PDF table.

@@ -31,22 +31,34 @@ type Written struct {
 // failure leaves no partial file. It stops at the first error; files
 // written before it stay.
 func WriteFiles(in *Inspection, f Files) ([]Written, error) {
+	return writeFiles(f, [5]func(io.Writer) error{
+		func(w io.Writer) error { return WritePDF(w, in) },
+		func(w io.Writer) error { return WriteIndicationsCSV(w, in) },
+		func(w io.Writer) error { return WriteRecordJSON(w, in) },
+		func(w io.Writer) error { return WriteRecordCSV(w, in) },
+		func(w io.Writer) error { return WriteIndicationsJSON(w, in) },
+	})
+}
+
+// writeFiles writes the outputs named in f with write, in the order PDF,
+// indications CSV, record JSON, record CSV, indications JSON.
+func writeFiles(f Files, write [5]func(io.Writer) error) ([]Written, error) {
 	outs := []struct {
 		kind, path string
-		write      func(io.Writer, *Inspection) error
+		write      func(io.Writer) error
 	}{
-		{"pdf", f.PDF, WritePDF},
-		{"indications-csv", f.IndicationsCSV, WriteIndicationsCSV},
-		{"record-json", f.RecordJSON, WriteRecordJSON},
-		{"record-csv", f.RecordCSV, WriteRecordCSV},
-		{"indications-json", f.IndicationsJSON, WriteIndicationsJSON},
+		{"pdf", f.PDF, write[0]},
+		{"indications-csv", f.IndicationsCSV, write[1]},
+		{"record-json", f.RecordJSON, write[2]},
+		{"record-csv", f.RecordCSV, write[3]},
+		{"indications-json", f.IndicationsJSON, write[4]},
 	}
 	var done []Written
 	for _, o := range outs {
 		if o.path == "" {
 			continue
 		}
-		w, err := writeAtomic(o.path, func(w io.Writer) error { return o.write(w, in) })
+		w, err := writeAtomic(o.path, o.write)
 		if err != nil {
 			return done, fmt.Errorf("write %s: %w", o.path, err)
 		}

@@ -4,7 +4,6 @@ import (
 	"context"
 	"encoding/json"
 	"errors"
-	"fmt"
 	"time"
 
 	"whorl/store"
@@ -118,95 +117,32 @@ func PointsCurve(c store.Calibration) ([]CurvePoint, error) {
 // record that does not verify. The report is released (Draft false, the
 // release's report ID) when the newest event is a QA release; otherwise it
 // is a draft with the ID "<inspection id>-D-<first 8 hex digits of the
-// chain head>".
+// chain head>". It holds the whole record in memory, with the signal
+// window of every reportable indication; Open builds the same report for
+// streaming, with memory that does not grow with the number of
+// indications and events. A window that cannot be loaded gives a
+// *WindowError.
 func FromStore(ctx context.Context, s *store.Store, opt Options) (*Inspection, error) {
-	now := opt.Now
-	if now == nil {
-		now = time.Now
-	}
-	curve := opt.Curve
-	if curve == nil {
-		curve = PointsCurve
-	}
-	res, err := s.Verify(ctx)
+	in, invalid, err := head(ctx, s, opt)
 	if err != nil {
 		return nil, err
 	}
-	if err := res.Err(); err != nil {
-		return nil, err
-	}
-	in := &Inspection{Generated: now().UTC(), Chain: res}
-	if in.Record, err = s.Inspection(ctx); err != nil {
-		return nil, err
-	}
-	if in.People, err = s.People(ctx); err != nil {
-		return nil, err
-	}
-	if in.Components, err = s.Components(ctx); err != nil {
-		return nil, err
-	}
-	if in.Scans, err = s.Scans(ctx); err != nil {
-		return nil, err
-	}
-	if in.Chains, err = s.Chains(ctx); err != nil {
-		return nil, err
-	}
-	if in.Standards, err = s.Standards(ctx); err != nil {
-		return nil, err
-	}
-	cals, err := s.Calibrations(ctx)
-	if err != nil {
-		return nil, err
-	}
-	for _, c := range cals {
-		pts, err := curve(c)
-		if err != nil {
-			return nil, fmt.Errorf("calibration %s v%d: curve points: %w", c.ID, c.Version, err)
-		}
-		in.Calibrations = append(in.Calibrations, Calibration{Calibration: c, Points: pts})
-	}
-	if in.Groups, err = s.GroupChecks(ctx); err != nil {
-		return nil, err
-	}
-	inds, err := s.Indications(ctx, "")
-	if err != nil {
-		return nil, err
-	}
-	invalid := map[string]bool{}
-	for _, c := range in.Components {
-		invalid[c.ID] = c.Status == store.StatusInvalidGroup
-	}
-	for _, d := range inds {
-		calls, err := s.Calls(ctx, d.ID)
-		if err != nil {
-			return nil, err
-		}
-		ri := Indication{Indication: d, Calls: calls}
-		switch {
-		case invalid[d.Component]:
-			ri.Excluded = "invalid calibration group: re-test"
-		case d.Status == store.CallAccepted && d.CallVersion > 1:
-			// A person accepted it: reported whatever the criteria say.
-		case opt.Exclude != nil:
-			ri.Excluded = opt.Exclude(d)
-		}
+	err = s.EachIndication(ctx, func(d store.Indication, calls []store.Call) error {
+		ri := Indication{Indication: d, Calls: calls, Excluded: exclusion(d, invalid, opt)}
 		if opt.Window != nil && ri.Reportable() {
+			var err error
 			if ri.Window, err = opt.Window(ctx, d); err != nil {
-				return nil, fmt.Errorf("indication %s: signal window: %w", d.ID, err)
+				return &WindowError{Indication: d.ID, Err: err}
 			}
 		}
 		in.Indications = append(in.Indications, ri)
-	}
-	if in.Releases, err = s.Releases(ctx); err != nil {
+		return nil
+	})
+	if err != nil {
 		return nil, err
 	}
 	if in.Events, err = s.Events(ctx); err != nil {
 		return nil, err
-	}
-	in.Draft = true
-	in.ReportID = fmt.Sprintf("%s-D-%s", in.Record.ID, res.HeadHash[:8])
-	if n := len(in.Releases); n > 0 && in.Releases[n-1].HeadSeq == res.HeadSeq-1 {
-		in.Draft, in.ReportID = false, in.Releases[n-1].ReportID
 	}
 	return in, nil
 }

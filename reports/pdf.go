@@ -37,13 +37,52 @@ const (
 
 type pdfw struct {
 	f  *fpdf.Fpdf
-	in *Inspection
+	in *pdfInput
 	id string // report ID as printed
+}
+
+// pdfInput is what the PDF draws: the head of the record, the reportable
+// indications, and counts of the rest of the indications and of the
+// events.
+type pdfInput struct {
+	*Inspection               // the head; its Indications and Events are not read
+	reportable  []*Indication // in order of recording
+	total       int           // indications recorded
+	rejected    int           // indications whose current call is rejected
+	excluded    map[string]int
+	kinds       map[string]int // events by item kind
+	signed      map[string]int // events by actor
+	// window loads a reportable indication's signal window when its
+	// figures are drawn; nil uses Indication.Window.
+	window func(d *Indication) (*Window, error)
+}
+
+// pdfFromInspection counts and selects what the PDF draws from in.
+func pdfFromInspection(in *Inspection) *pdfInput {
+	pi := &pdfInput{Inspection: in, total: len(in.Indications), excluded: map[string]int{}, kinds: map[string]int{}, signed: map[string]int{}}
+	for i := range in.Indications {
+		d := &in.Indications[i]
+		switch {
+		case d.Status == store.CallRejected:
+			pi.rejected++
+		case !d.Reportable():
+			pi.excluded[d.Excluded]++
+		default:
+			pi.reportable = append(pi.reportable, d)
+		}
+	}
+	for _, e := range in.Events {
+		pi.kinds[e.ItemKind]++
+		pi.signed[e.Actor]++
+	}
+	return pi
 }
 
 // WritePDF writes the inspection report as PDF. The creation date is the
 // input's Generated time, so the same input gives the same text.
-func WritePDF(w io.Writer, in *Inspection) error {
+func WritePDF(w io.Writer, in *Inspection) error { return writePDF(w, pdfFromInspection(in)) }
+
+func writePDF(w io.Writer, in *pdfInput) error {
 	f := fpdf.New("P", "mm", "A4", "")
 	p := &pdfw{f: f, in: in, id: pdfText(in.ReportID, false)}
 	f.SetCreationDate(in.Generated)
@@ -333,15 +372,7 @@ func roleName(r store.Role) string {
 	return string(r)
 }
 
-func (p *pdfw) signedCount(name string) int {
-	n := 0
-	for _, e := range p.in.Events {
-		if e.Actor == name {
-			n++
-		}
-	}
-	return n
-}
+func (p *pdfw) signedCount(name string) int { return p.in.signed[name] }
 
 func short(h string, n int) string {
 	if len(h) > n {
@@ -514,23 +545,13 @@ func (p *pdfw) indicationSection() {
 	in := p.in
 	p.heading("5  Indications")
 	var rows [][]string
-	rejected := 0
-	excluded := map[string]int{}
-	for i := range in.Indications {
-		d := &in.Indications[i]
-		if d.Status == store.CallRejected {
-			rejected++
-			continue
-		}
-		if !d.Reportable() {
-			excluded[d.Excluded]++
-			continue
-		}
+	rejected, excluded := in.rejected, in.excluded
+	for _, d := range in.reportable {
 		rows = append(rows, []string{d.ID, d.Component, d.Location, d.Channel, strconv.FormatFloat(d.VppV, 'f', 2, 64),
 			strconv.FormatFloat(degrees(d.PhaseRad), 'f', 0, 64), depthText(d), d.Class, d.Method, curveText(d), callLabel(d)})
 	}
 	p.para(fmt.Sprintf("%d indications recorded; %d reportable (listed below); %d rejected by analysts. "+
-		"Location is from the named landmark; phase in degrees; depth in %%TW with its uncertainty.", len(in.Indications), len(rows), rejected), "", 8.5)
+		"Location is from the named landmark; phase in degrees; depth in %%TW with its uncertainty.", in.total, len(rows), rejected), "", 8.5)
 	if len(excluded) > 0 {
 		reasons := make([]string, 0, len(excluded))
 		for r := range excluded {
@@ -552,13 +573,7 @@ func (p *pdfw) indicationSection() {
 }
 
 func (p *pdfw) figureSection() {
-	in := p.in
-	var rep []*Indication
-	for i := range in.Indications {
-		if in.Indications[i].Reportable() {
-			rep = append(rep, &in.Indications[i])
-		}
-	}
+	rep := p.in.reportable
 	if len(rep) == 0 {
 		return
 	}
@@ -568,6 +583,17 @@ func (p *pdfw) figureSection() {
 	p.f.Ln(1)
 	const fw, fh = 88.0, 64.0
 	for _, d := range rep {
+		if p.in.window != nil {
+			// Loaded for this indication only, and dropped once drawn.
+			w, err := p.in.window(d)
+			if err != nil {
+				p.f.SetError(err)
+				return
+			}
+			dd := *d
+			dd.Window = w
+			d = &dd
+		}
 		var hist []string
 		for _, c := range d.Calls {
 			s := fmt.Sprintf("v%d %s: %s, class %s, by %s (%s) %s", c.Version, c.Kind, c.Status, c.Class, c.By, c.Role, fmtDate(c.At))
@@ -632,10 +658,7 @@ func (p *pdfw) figureSection() {
 func (p *pdfw) recordSection() {
 	in := p.in
 	p.heading("7  Record")
-	kinds := map[string]int{}
-	for _, e := range in.Events {
-		kinds[e.ItemKind]++
-	}
+	kinds := in.kinds
 	var names []string
 	for k := range kinds {
 		names = append(names, k)

@@ -116,16 +116,20 @@ func runReport(ctx context.Context, e *env, fs *flag.FlagSet, args []string) err
 	if !flagBool(fs, "signals") {
 		opt.Window = nil
 	}
-	in, err := reports.FromStore(ctx, s, opt)
+	in, err := reports.Open(ctx, s, opt)
 	if errors.Is(err, store.ErrTampered) {
 		return checkFailed(err)
 	}
 	if err != nil {
 		return dataError(err)
 	}
-	written, err := reports.WriteFiles(in, files)
+	written, err := in.WriteFiles(ctx, files)
 	for _, w := range written {
 		fmt.Fprintf(e.stdout, "%-17s %s (%d bytes, sha256 %s)\n", w.Kind, w.Path, w.Bytes, w.SHA256)
+	}
+	var we *reports.WindowError
+	if errors.As(err, &we) {
+		return dataError(err)
 	}
 	if err != nil {
 		return err
@@ -134,16 +138,6 @@ func runReport(ctx context.Context, e *env, fs *flag.FlagSet, args []string) err
 	if !in.Draft {
 		state = "released"
 	}
-	fmt.Fprintf(e.stdout, "report %s (%s): %d indications, %d reportable\n", in.ReportID, state, len(in.Indications), countReportable(in))
+	fmt.Fprintf(e.stdout, "report %s (%s): %d indications, %d reportable\n", in.ReportID, state, in.Total, in.Reportable())
 	return nil
-}
-
-func countReportable(in *reports.Inspection) int {
-	n := 0
-	for i := range in.Indications {
-		if in.Indications[i].Reportable() {
-			n++
-		}
-	}
-	return n
 }

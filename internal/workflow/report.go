@@ -49,12 +49,14 @@ func ReportOptions(st *store.Store, reportingPct float64, now func() time.Time) 
 }
 
 // WriteReports writes the PDF report and the CSV and JSON exports of the
-// record into dir (see ReportOptions), each file whole or not at all.
+// record into dir (see ReportOptions), each file whole or not at all. The
+// exports are streamed from the record (reports.Open), so memory does not
+// grow with the number of indications and events.
 func WriteReports(ctx context.Context, st *store.Store, dir string, reportingPct float64, now func() time.Time) (*ReportFiles, error) {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return nil, err
 	}
-	in, err := reports.FromStore(ctx, st, ReportOptions(st, reportingPct, now))
+	in, err := reports.Open(ctx, st, ReportOptions(st, reportingPct, now))
 	if err != nil {
 		return nil, err
 	}
@@ -67,7 +69,7 @@ func WriteReports(ctx context.Context, st *store.Store, dir string, reportingPct
 		RecordCSV:       filepath.Join(dir, "record.csv"),
 		RecordJSON:      filepath.Join(dir, "record.json"),
 	}
-	files.Written, err = reports.WriteFiles(in, reports.Files{PDF: files.PDF, IndicationsCSV: files.IndicationsCSV,
+	files.Written, err = in.WriteFiles(ctx, reports.Files{PDF: files.PDF, IndicationsCSV: files.IndicationsCSV,
 		IndicationsJSON: files.IndicationsJSON, RecordCSV: files.RecordCSV, RecordJSON: files.RecordJSON})
 	if err != nil {
 		return nil, err
