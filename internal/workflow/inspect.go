@@ -496,6 +496,8 @@ type tubeResult struct {
 	row, col  int
 	scan      store.Scan
 	group     string
+	calID     string // the group's calibration as recorded
+	calVer    int
 	inds      []analysis.Indication
 	err       error
 }
@@ -646,7 +648,7 @@ func analyseFile(ctx context.Context, path string, groups map[string]*group, ana
 		r.err = fmt.Errorf("%s: %w", path, err)
 		return r
 	}
-	r.inds = inds
+	r.inds, r.calID, r.calVer = inds, g.cal.ID, g.calVersion
 	if opt.collect != nil {
 		opt.collect(inds)
 	}
@@ -710,7 +712,11 @@ func record(ctx context.Context, analyst *store.Session, known map[string]store.
 			sum.Landmarks++
 			continue
 		}
-		recs = append(recs, toStore(&r.inds[i]))
+		rec := toStore(&r.inds[i])
+		if rec.CurveID == r.calID {
+			rec.CurveVersion = r.calVer // the version the record holds
+		}
+		recs = append(recs, rec)
 	}
 	if rec, ok := scans[r.scan.Path]; ok {
 		// Recorded by an earlier run that stopped before its result.
