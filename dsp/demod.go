@@ -670,35 +670,6 @@ func combineMoments(a *[splineOrder][splineOrder]float64, mo [2 * splineOrder]fl
 	return s
 }
 
-// blockMoments mixes one block with the carrier table (cr, ci) and runs
-// the cascade of four complex running sums over it, as if the block had n
-// samples (missing samples at the end of the record count as zero). It
-// returns the sums re, im interleaved. Ten floating-point operations per
-// sample, against sixteen for four complex taps.
-func blockMoments(cr, ci, x []float64, n int) [2 * splineOrder]float64 {
-	var a1r, a1i, a2r, a2i, a3r, a3i, a4r, a4i float64
-	cr, ci = cr[:len(x)], ci[:len(x)]
-	for p, v := range x {
-		a1r += v * cr[p]
-		a1i += v * ci[p]
-		a2r += a1r
-		a2i += a1i
-		a3r += a2r
-		a3i += a2i
-		a4r += a3r
-		a4i += a3i
-	}
-	for range n - len(x) {
-		a2r += a1r
-		a2i += a1i
-		a3r += a2r
-		a3i += a2i
-		a4r += a3r
-		a4i += a3i
-	}
-	return [2 * splineOrder]float64{a1r, a1i, a2r, a2i, a3r, a3i, a4r, a4i}
-}
-
 // stage1Len is the number of intermediate samples from n input samples:
 // output m covers inputs [m·d1, m·d1 + splineOrder·(d1−1)].
 func (dm *demodulator) stage1Len(n int) int {
@@ -743,7 +714,8 @@ func (dm *demodulator) run(v []float64, freqsHz []float64, fsHz float64) ([][]co
 //
 // The carrier is split as e^{−jω(b·d1+p)} = e^{−jωb·d1}·e^{−jωp}. Each
 // block's four segment sums S_k = Σ_p t_k[p]·e^{−jωp}·v_p are formed either
-// from four running sums of the mixed samples (blockMoments and
+// from four running sums of the mixed samples (moments.go, two tones per
+// read of the block, and
 // momentMatrix: ten operations per sample) or, for blocks shorter than 8
 // samples, from complex taps T_k[p] = t_k[p]·e^{−jωp} (blockSums). The
 // block's sums are then turned by the block phase e^{−jωb·d1}, advanced by
@@ -764,7 +736,7 @@ func (dm *demodulator) stage1(us [][]complex128, v []float64, freqsHz []float64,
 	type toneState struct {
 		w          float64
 		ct         [][2 * splineOrder]float64 // complex taps (tap path)
-		cr, ci     []float64                  // carrier table (moment path)
+		car        []complex128               // carrier table e^{−jωp} (moment path)
 		o1, o2, o3 complex128                 // partial outputs b−1, b−2, b−3 carried between blocks
 		rot, step  complex128                 // block phase and its change per block
 	}
@@ -775,9 +747,10 @@ func (dm *demodulator) stage1(us [][]complex128, v []float64, freqsHz []float64,
 		sn, cs := math.Sincos(w * float64(d1))
 		t.step = complex(cs, sn)
 		if dm.useMoments {
-			t.cr, t.ci = make([]float64, d1), make([]float64, d1)
-			for p := range t.cr {
-				t.ci[p], t.cr[p] = math.Sincos(w * float64(p))
+			t.car = make([]complex128, d1)
+			for p := range t.car {
+				sn, cs := math.Sincos(w * float64(p))
+				t.car[p] = complex(cs, sn)
 			}
 		} else {
 			t.ct = make([][2 * splineOrder]float64, d1)
@@ -794,18 +767,38 @@ func (dm *demodulator) stage1(us [][]complex128, v []float64, freqsHz []float64,
 	}
 	nBlocks := m1 + splineOrder - 1
 	a := &dm.mom
+	// mo holds each tone's block moments (moment path), two tones per
+	// read of the block.
+	mo := make([][2 * splineOrder]float64, nf)
+	var pair [4 * splineOrder]float64
 	for b := 0; b < nBlocks; b++ {
 		base := b * d1
 		var blk []float64
 		if base < len(v) {
 			blk = v[base:min(base+d1, len(v))]
 		}
+		if dm.useMoments && len(blk) > 0 {
+			i := 0
+			for ; i+1 < nf; i += 2 {
+				mixMoments2(blk, st[i].car, st[i+1].car, &pair)
+				mo[i] = [2 * splineOrder]float64(pair[:2*splineOrder])
+				mo[i+1] = [2 * splineOrder]float64(pair[2*splineOrder:])
+			}
+			if i < nf {
+				mixMoments1(blk, st[i].car, &mo[i])
+			}
+			if short := d1 - len(blk); short > 0 {
+				for i := range mo {
+					extendMoments(&mo[i], short)
+				}
+			}
+		}
 		for i := range st {
 			t := &st[i]
 			var sums [2 * splineOrder]float64
 			if len(blk) > 0 {
 				if dm.useMoments {
-					sums = combineMoments(a, blockMoments(t.cr, t.ci, blk, d1))
+					sums = combineMoments(a, mo[i])
 				} else {
 					sums = blockSums(t.ct[:len(blk)], blk)
 				}
