@@ -727,6 +727,18 @@ func (dm *demodulator) run(v []float64, freqsHz []float64, fsHz float64) ([][]co
 // or infinity makes the block's first sum non-finite (the first running
 // sum, or the first tap column, which is positive at every phase).
 func (dm *demodulator) stage1(us [][]complex128, v []float64, freqsHz []float64, fsHz float64) int {
+	if len(us) == 0 {
+		return -1
+	}
+	return dm.stage1Range(us, v, freqsHz, fsHz, 0, len(us[0]))
+}
+
+// stage1Range is stage1 for the intermediate samples mLo ≤ m < mHi only,
+// which need the blocks mLo … mHi+splineOrder−2. Every output is formed
+// from the same operations in the same order whatever the range (the
+// block phase is replayed from the last exact value), so ranges computed
+// apart give exactly the samples of one pass over the whole record.
+func (dm *demodulator) stage1Range(us [][]complex128, v []float64, freqsHz []float64, fsHz float64, mLo, mHi int) int {
 	d1 := dm.d1
 	nf := len(freqsHz)
 	if nf == 0 {
@@ -766,30 +778,60 @@ func (dm *demodulator) stage1(us [][]complex128, v []float64, freqsHz []float64,
 		st[i] = t
 	}
 	nBlocks := m1 + splineOrder - 1
+	bHi := min(nBlocks, mHi+splineOrder-1)
 	a := &dm.mom
+	// The block phase at the first block, replayed from the last block
+	// with an exact value so that it agrees with a pass from block 0.
+	for i := range st {
+		t := &st[i]
+		for b := mLo &^ 63; b < mLo; b++ {
+			if b%64 == 0 {
+				sn, cs := math.Sincos(t.w * float64(b*d1))
+				t.rot = complex(cs, sn)
+			} else {
+				t.rot *= t.step
+			}
+		}
+	}
 	// mo holds each tone's block moments (moment path), two tones per
-	// read of the block.
+	// read of the block; next those of the following block when the two
+	// were read together.
 	mo := make([][2 * splineOrder]float64, nf)
+	next := make([][2 * splineOrder]float64, nf)
+	ready := false
+	cars := make([][]complex128, nf)
+	for i := range st {
+		cars[i] = st[i].car
+	}
 	var pair [4 * splineOrder]float64
-	for b := 0; b < nBlocks; b++ {
+	for b := mLo; b < bHi; b++ {
 		base := b * d1
 		var blk []float64
 		if base < len(v) {
 			blk = v[base:min(base+d1, len(v))]
 		}
 		if dm.useMoments && len(blk) > 0 {
-			i := 0
-			for ; i+1 < nf; i += 2 {
-				mixMoments2(blk, st[i].car, st[i+1].car, &pair)
-				mo[i] = [2 * splineOrder]float64(pair[:2*splineOrder])
-				mo[i+1] = [2 * splineOrder]float64(pair[2*splineOrder:])
-			}
-			if i < nf {
-				mixMoments1(blk, st[i].car, &mo[i])
-			}
-			if short := d1 - len(blk); short > 0 {
-				for i := range mo {
-					extendMoments(&mo[i], short)
+			switch {
+			case ready:
+				mo, next = next, mo
+				ready = false
+			case b+1 < bHi && base+2*d1 <= len(v):
+				blockPairMoments(v[base:base+2*d1], d1, cars, mo, next)
+				ready = true
+			default:
+				i := 0
+				for ; i+1 < nf; i += 2 {
+					mixMoments2(blk, st[i].car, st[i+1].car, &pair)
+					mo[i] = [2 * splineOrder]float64(pair[:2*splineOrder])
+					mo[i+1] = [2 * splineOrder]float64(pair[2*splineOrder:])
+				}
+				if i < nf {
+					mixMoments1(blk, st[i].car, &mo[i])
+				}
+				if short := d1 - len(blk); short > 0 {
+					for i := range mo {
+						extendMoments(&mo[i], short)
+					}
 				}
 			}
 		}
@@ -820,7 +862,7 @@ func (dm *demodulator) stage1(us [][]complex128, v []float64, freqsHz []float64,
 			}
 			rot := t.rot
 			// Block b contributes tap segment k to output b−k.
-			if m := b - (splineOrder - 1); m >= 0 && m < m1 {
+			if m := b - (splineOrder - 1); m >= mLo && m < mHi {
 				us[i][m] = t.o3 + rot*complex(sums[6], sums[7])
 			}
 			t.o3 = t.o2 + rot*complex(sums[4], sums[5])

@@ -68,3 +68,13 @@ func mixMoments1(x []float64, c []complex128, out *[2 * splineOrder]float64) {
 func mixMoments2(x []float64, c1, c2 []complex128, out *[4 * splineOrder]float64) {
 	blockMoments2(x, c1[:len(x)], c2[:len(x)], out)
 }
+
+// unpackPair splits the interleaved two-block moments of one tone (see
+// pairMoments1AVX) into the first block's a and the second's b.
+func unpackPair(q []float64, a, b *[2 * splineOrder]float64) {
+	q = q[:4*splineOrder]
+	for j := 0; j < splineOrder; j++ {
+		a[2*j], a[2*j+1] = q[4*j], q[4*j+1]
+		b[2*j], b[2*j+1] = q[4*j+2], q[4*j+3]
+	}
+}

@@ -84,3 +84,116 @@ done2:
 	MOVUPD X7, 96(DI)
 	MOVUPD X8, 112(DI)
 	RET
+
+// Two consecutive blocks at once with AVX: a 256-bit register holds one
+// running sum of one tone as (re, im) of block b in the low half and of
+// block b+1 in the high half, so the additions of two blocks, which do not
+// depend on each other, share one instruction and hide each other's
+// latency. Same operations per lane as above, so the same bits.
+
+// func hasAVX() bool
+TEXT ·hasAVX(SB), NOSPLIT, $0-1
+	MOVL $1, AX
+	XORL CX, CX
+	CPUID
+	ANDL $0x18000000, CX // OSXSAVE (bit 27) and AVX (bit 28)
+	CMPL CX, $0x18000000
+	JNE noavx
+	XORL CX, CX
+	XGETBV
+	ANDL $6, AX // the OS saves the XMM and YMM state
+	CMPL AX, $6
+	JNE noavx
+	MOVB $1, ret+0(FP)
+	RET
+noavx:
+	MOVB $0, ret+0(FP)
+	RET
+
+// func pairMoments1AVX(x []float64, d1 int, c []complex128, out *[16]float64)
+TEXT ·pairMoments1AVX(SB), NOSPLIT, $0-64
+	MOVQ x_base+0(FP), SI
+	MOVQ d1+24(FP), DX
+	MOVQ c_base+32(FP), R8
+	MOVQ out+56(FP), DI
+	MOVQ DX, CX
+	SHLQ $3, DX
+	VXORPD Y1, Y1, Y1
+	VXORPD Y2, Y2, Y2
+	VXORPD Y3, Y3, Y3
+	VXORPD Y4, Y4, Y4
+	TESTQ CX, CX
+	JEQ donep1
+loopp1:
+	VMOVDDUP (SI), X0
+	VMOVDDUP (SI)(DX*1), X11
+	VINSERTF128 $1, X11, Y0, Y0
+	VBROADCASTF128 (R8), Y9
+	VMULPD Y0, Y9, Y9
+	VADDPD Y9, Y1, Y1
+	VADDPD Y1, Y2, Y2
+	VADDPD Y2, Y3, Y3
+	VADDPD Y3, Y4, Y4
+	ADDQ $8, SI
+	ADDQ $16, R8
+	DECQ CX
+	JNE loopp1
+donep1:
+	VMOVUPD Y1, 0(DI)
+	VMOVUPD Y2, 32(DI)
+	VMOVUPD Y3, 64(DI)
+	VMOVUPD Y4, 96(DI)
+	VZEROUPPER
+	RET
+
+// func pairMoments2AVX(x []float64, d1 int, c1, c2 []complex128, out *[32]float64)
+TEXT ·pairMoments2AVX(SB), NOSPLIT, $0-88
+	MOVQ x_base+0(FP), SI
+	MOVQ d1+24(FP), DX
+	MOVQ c1_base+32(FP), R8
+	MOVQ c2_base+56(FP), R9
+	MOVQ out+80(FP), DI
+	MOVQ DX, CX
+	SHLQ $3, DX
+	VXORPD Y1, Y1, Y1
+	VXORPD Y2, Y2, Y2
+	VXORPD Y3, Y3, Y3
+	VXORPD Y4, Y4, Y4
+	VXORPD Y5, Y5, Y5
+	VXORPD Y6, Y6, Y6
+	VXORPD Y7, Y7, Y7
+	VXORPD Y8, Y8, Y8
+	TESTQ CX, CX
+	JEQ donep2
+loopp2:
+	VMOVDDUP (SI), X0
+	VMOVDDUP (SI)(DX*1), X11
+	VINSERTF128 $1, X11, Y0, Y0
+	VBROADCASTF128 (R8), Y9
+	VBROADCASTF128 (R9), Y10
+	VMULPD Y0, Y9, Y9
+	VMULPD Y0, Y10, Y10
+	VADDPD Y9, Y1, Y1
+	VADDPD Y10, Y5, Y5
+	VADDPD Y1, Y2, Y2
+	VADDPD Y5, Y6, Y6
+	VADDPD Y2, Y3, Y3
+	VADDPD Y6, Y7, Y7
+	VADDPD Y3, Y4, Y4
+	VADDPD Y7, Y8, Y8
+	ADDQ $8, SI
+	ADDQ $16, R8
+	ADDQ $16, R9
+	DECQ CX
+	JNE loopp2
+donep2:
+	VMOVUPD Y1, 0(DI)
+	VMOVUPD Y2, 32(DI)
+	VMOVUPD Y3, 64(DI)
+	VMOVUPD Y4, 96(DI)
+	VMOVUPD Y5, 128(DI)
+	VMOVUPD Y6, 160(DI)
+	VMOVUPD Y7, 192(DI)
+	VMOVUPD Y8, 224(DI)
+	VZEROUPPER
+	RET
