@@ -80,6 +80,7 @@ type WindowError struct {
 	Err        error
 }
 
+// Error names the indication and gives the loader's error.
 func (e *WindowError) Error() string {
 	return fmt.Sprintf("indication %s: signal window: %v", e.Indication, e.Err)
 }

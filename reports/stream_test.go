@@ -98,6 +98,37 @@ func TestReportMatchesFromStore(t *testing.T) {
 	}
 }
 
+// TestReportLoadsWindowsWhenDrawn checks that Open loads no signal
+// window and that the PDF loads each reportable indication's once.
+func TestReportLoadsWindowsWhenDrawn(t *testing.T) {
+	t.Parallel()
+	ctx := context.Background()
+	s, _ := fixture(t)
+	loaded := map[string]int{}
+	r, err := reports.Open(ctx, s, reports.Options{Now: func() time.Time { return generated },
+		Window: func(ctx context.Context, d store.Indication) (*reports.Window, error) {
+			loaded[d.ID]++
+			return syntheticWindow(ctx, d)
+		}})
+	if err != nil {
+		t.Fatalf("Open: %v", err)
+	}
+	if len(loaded) != 0 {
+		t.Errorf("Open loaded windows %v; want none before the PDF is drawn", loaded)
+	}
+	if err := r.WritePDF(ctx, io.Discard); err != nil {
+		t.Fatalf("WritePDF: %v", err)
+	}
+	if len(loaded) != r.Reportable() || r.Reportable() == 0 {
+		t.Errorf("WritePDF loaded windows %v; want one each for the %d reportable indications", loaded, r.Reportable())
+	}
+	for _, d := range r.Indications {
+		if loaded[d.ID] != 1 || d.Window != nil {
+			t.Errorf("indication %s: window loaded %d times, kept %v; want once, not kept", d.ID, loaded[d.ID], d.Window != nil)
+		}
+	}
+}
+
 func TestOpenRefusesTampered(t *testing.T) {
 	t.Parallel()
 	s, _ := fixture(t)
