@@ -1,6 +1,10 @@
 // Package reports writes the inspection report (PDF) and the record
 // exports (CSV and JSON) from a report input, [Inspection], which
-// [FromStore] builds from a record store.
+// [FromStore] builds from a record store, or from a [Report], which
+// [Open] builds for streaming: it keeps only the head of the record, the
+// reportable indications and counts, and its writers read the
+// indications and events from the store a batch at a time, so that memory
+// does not grow with their number. Both write the same bytes.
 //
 // # Conventions
 //
