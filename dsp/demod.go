@@ -36,8 +36,11 @@ type DemodOptions struct {
 	// CoilLengthM is the effective coil length used for the flaw-band warning
 	// (0: no check).
 	CoilLengthM float64
-	// Workers is the number of frequencies demodulated concurrently
-	// (simultaneous tones; 0 or 1: one at a time).
+	// Workers is the number of goroutines of the simultaneous-tone
+	// lock-in (0 or 1: one): the first stage splits the record into that
+	// many time ranges, the low-pass filters that many tones at once. The
+	// output does not depend on it, bit for bit. Ignored for
+	// time-multiplexed records.
 	Workers int
 }
 
@@ -369,76 +372,39 @@ func demodSimultaneous(rec *acquire.RawRecord, opt DemodOptions) (*acquire.Scan,
 	}
 	dm.trim = trim
 	type result struct {
-		tr  ToneReport
-		z   []complex128
-		err error
+		tr ToneReport
+		z  []complex128
 	}
 	res := make([]result, len(rec.ExcitationHz))
-	// tones demodulates the tones ks in one pass over the voltage (and one
-	// over the reference), so the record is read from memory once.
-	tones := func(dm *demodulator, ks []int) {
-		freqs := make([]float64, len(ks))
-		for i, k := range ks {
-			freqs[i] = rec.ExcitationHz[k]
-		}
-		zs, err := dm.run(rec.VoltageV, freqs, fs)
-		if err != nil {
-			res[ks[0]].err = err
-			return
-		}
-		var rs [][]complex128
-		if rec.ReferenceV != nil {
-			if rs, err = dm.run(rec.ReferenceV, freqs, fs); err != nil {
-				res[ks[0]].err = err
-				return
-			}
-		}
-		for i, k := range ks {
-			f, z := freqs[i], zs[i]
-			tr := ToneReport{FreqHz: f, Channel: ChannelLabel(rec.Coil, f)}
-			if rs != nil {
-				if err := referTo(z, rs[i], f, &tr); err != nil {
-					res[k].err = err
-					return
-				}
-			} else {
-				tr.EstimatedPhaseRad = cmplx.Phase(mean(z))
-			}
-			tr.MeanV = mean(z)
-			res[k] = result{tr: tr, z: z}
+	// All tones in one pass over the voltage (and one over the reference),
+	// so the record is read from memory once; the workers split the record
+	// in time (see demodulator.run).
+	workers := max(opt.Workers, 1)
+	freqs := rec.ExcitationHz
+	zs, err := dm.run(rec.VoltageV, freqs, fs, workers)
+	if err != nil {
+		return nil, nil, err
+	}
+	var rs [][]complex128
+	if rec.ReferenceV != nil {
+		if rs, err = dm.run(rec.ReferenceV, freqs, fs, workers); err != nil {
+			return nil, nil, err
 		}
 	}
-	workers := min(max(opt.Workers, 1), len(rec.ExcitationHz))
-	if workers == 1 {
-		all := make([]int, len(rec.ExcitationHz))
-		for k := range all {
-			all[k] = k
-		}
-		tones(dm, all)
-	} else {
-		var wg sync.WaitGroup
-		for w := 0; w < workers; w++ {
-			wdm := dm
-			if w > 0 {
-				wdm = newDemodulator(d1, d2, sos)
-				wdm.trim = trim
+	for k, f := range freqs {
+		z := zs[k]
+		tr := ToneReport{FreqHz: f, Channel: ChannelLabel(rec.Coil, f)}
+		if rs != nil {
+			if err := referTo(z, rs[k], f, &tr); err != nil {
+				return nil, nil, err
 			}
-			var ks []int
-			for k := w; k < len(rec.ExcitationHz); k += workers {
-				ks = append(ks, k)
-			}
-			wg.Add(1)
-			go func() {
-				defer wg.Done()
-				tones(wdm, ks)
-			}()
+		} else {
+			tr.EstimatedPhaseRad = cmplx.Phase(mean(z))
 		}
-		wg.Wait()
+		tr.MeanV = mean(z)
+		res[k] = result{tr: tr, z: z}
 	}
 	for k, r := range res {
-		if r.err != nil {
-			return nil, nil, r.err
-		}
 		rep.Tones = append(rep.Tones, r.tr)
 		scan.Channels = append(scan.Channels, acquire.Channel{Name: r.tr.Channel, FreqHz: rec.ExcitationHz[k], Mode: rec.Mode, Samples: r.z})
 	}
@@ -571,6 +537,7 @@ type demodulator struct {
 	// taps is the B-spline kernel times 2 (the lock-in factor), zero-padded
 	// to splineOrder·d1 so that each input phase p uses taps[p+k·d1].
 	taps []float64
+	sos  SOS
 	ff   *FiltFilter
 	// trim is the number of output samples dropped at each end.
 	trim int
@@ -599,7 +566,7 @@ func newDemodulator(d1, d2 int, sos SOS) *demodulator {
 	for i, v := range h {
 		taps[i] = 2 * v / norm
 	}
-	dm := &demodulator{d1: d1, d2: d2, taps: taps, ff: NewFiltFilter(sos)}
+	dm := &demodulator{d1: d1, d2: d2, taps: taps, sos: sos, ff: NewFiltFilter(sos)}
 	dm.mom, dm.useMoments = momentMatrix(taps, d1)
 	return dm
 }
@@ -681,27 +648,63 @@ func (dm *demodulator) stage1Len(n int) int {
 }
 
 // run demodulates v at each of freqsHz and returns the decimated baseband
-// samples, one slice per frequency.
-func (dm *demodulator) run(v []float64, freqsHz []float64, fsHz float64) ([][]complex128, error) {
+// samples, one slice per frequency, on up to workers goroutines: the first
+// stage splits the intermediate samples into that many consecutive time
+// ranges (each reading its part of the record plus the splineOrder−1
+// blocks of overlap the B-spline needs), then the zero-phase low-pass runs
+// the tones concurrently. The result does not depend on workers.
+func (dm *demodulator) run(v []float64, freqsHz []float64, fsHz float64, workers int) ([][]complex128, error) {
 	m1 := dm.stage1Len(len(v))
 	us := make([][]complex128, len(freqsHz))
 	for i := range us {
 		us[i] = make([]complex128, m1)
 	}
-	if bad := dm.stage1(us, v, freqsHz, fsHz); bad >= 0 {
-		return nil, fmt.Errorf("%w: voltage sample %d is %v: expected a finite value", ErrRecord, bad, v[bad])
+	// Ranges of at least minRange intermediate samples, so that the
+	// goroutines' start-up and overlap stay small beside their work.
+	const minRange = 256
+	parts := max(1, min(workers, m1/minRange))
+	bad := make([]int, parts)
+	var wg sync.WaitGroup
+	for w := range parts {
+		lo, hi := m1*w/parts, m1*(w+1)/parts
+		if w == parts-1 {
+			bad[w] = dm.stage1Range(us, v, freqsHz, fsHz, lo, hi)
+			continue
+		}
+		wg.Go(func() { bad[w] = dm.stage1Range(us, v, freqsHz, fsHz, lo, hi) })
+	}
+	wg.Wait()
+	for _, j := range bad {
+		if j >= 0 {
+			return nil, fmt.Errorf("%w: voltage sample %d is %v: expected a finite value", ErrRecord, j, v[j])
+		}
 	}
 	nOut := (m1+dm.d2-1)/dm.d2 - 2*dm.trim
 	out := make([][]complex128, len(freqsHz))
-	for i, u := range us {
-		if err := dm.ff.Run(u, u); err != nil {
-			return nil, err
+	errs := make([]error, len(freqsHz))
+	// filter runs the low-pass on the tones w, w+g, w+2g, … with its own
+	// FiltFilter (one is not safe for concurrent use).
+	filter := func(w, g int, ff *FiltFilter) {
+		for i := w; i < len(us); i += g {
+			u := us[i]
+			if errs[i] = ff.Run(u, u); errs[i] != nil {
+				return
+			}
+			dst := make([]complex128, nOut)
+			for k := range dst {
+				dst[k] = u[(k+dm.trim)*dm.d2]
+			}
+			out[i] = dst
 		}
-		dst := make([]complex128, nOut)
-		for k := range dst {
-			dst[k] = u[(k+dm.trim)*dm.d2]
-		}
-		out[i] = dst
+	}
+	g := max(1, min(workers, len(us)))
+	for w := 1; w < g; w++ {
+		wg.Go(func() { filter(w, g, NewFiltFilter(dm.sos)) })
+	}
+	filter(0, g, dm.ff)
+	wg.Wait()
+	if err := errors.Join(errs...); err != nil {
+		return nil, err
 	}
 	return out, nil
 }
@@ -714,9 +717,9 @@ func (dm *demodulator) run(v []float64, freqsHz []float64, fsHz float64) ([][]co
 //
 // The carrier is split as e^{−jω(b·d1+p)} = e^{−jωb·d1}·e^{−jωp}. Each
 // block's four segment sums S_k = Σ_p t_k[p]·e^{−jωp}·v_p are formed either
-// from four running sums of the mixed samples (moments.go, two tones per
-// read of the block, and
-// momentMatrix: ten operations per sample) or, for blocks shorter than 8
+// from four running sums of the mixed samples (momentMatrix; ten
+// operations per sample; the kernels in moments.go read each sample once
+// for two tones and, with AVX, two blocks at once) or, for blocks shorter than 8
 // samples, from complex taps T_k[p] = t_k[p]·e^{−jωp} (blockSums). The
 // block's sums are then turned by the block phase e^{−jωb·d1}, advanced by
 // one complex multiplication per block and recomputed exactly with

@@ -76,3 +76,39 @@ func TestBlockPairMomentsMatchGo(t *testing.T) {
 		}
 	}
 }
+
+// TestStage1RangesMatchWhole: the first stage computed over consecutive
+// ranges of intermediate samples, split anywhere (also off the 64-block
+// grid of exact block phases), gives exactly the samples of one pass.
+func TestStage1RangesMatchWhole(t *testing.T) {
+	t.Parallel()
+	rnd := rand.New(rand.NewPCG(1, 2))
+	v := make([]float64, 123457)
+	for i := range v {
+		v[i] = rnd.NormFloat64()
+	}
+	freqs := []float64{400e3, 123e3, 21e3}
+	sos, _ := ButterworthLowpass(4, 400, 20e3)
+	for _, d1 := range []int{5, 50} {
+		dm := newDemodulator(d1, 10, sos)
+		m1 := dm.stage1Len(len(v))
+		whole := make([][]complex128, len(freqs))
+		parts := make([][]complex128, len(freqs))
+		for i := range whole {
+			whole[i] = make([]complex128, m1)
+			parts[i] = make([]complex128, m1)
+		}
+		dm.stage1(whole, v, freqs, 1e6)
+		cuts := []int{0, 1, 63, 64, 65, 200, 777, m1 - 2, m1}
+		for c := 0; c+1 < len(cuts); c++ {
+			dm.stage1Range(parts, v, freqs, 1e6, cuts[c], cuts[c+1])
+		}
+		for i := range whole {
+			for m := range whole[i] {
+				if parts[i][m] != whole[i][m] {
+					t.Fatalf("d1 %d tone %v Hz sample %d: ranges %v, whole %v", d1, freqs[i], m, parts[i][m], whole[i][m])
+				}
+			}
+		}
+	}
+}
