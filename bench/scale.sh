@@ -7,7 +7,7 @@
 # Each size is TUBES:LENGTH, e.g. 100:20m 1000:20m 10000:5.2m. For each it
 # generates an inspection with `whorl synth` (not timed), then runs
 # `whorl inspect` under GNU time and prints tubes per minute and peak
-# resident memory. Needs: GNU time (/usr/bin/time, Debian package "time"),
+# resident memory. Calibration groups hold about 48 tubes each. Needs: GNU time (/usr/bin/time, Debian package "time"),
 # and disk space: a 20 m tube of 8 channels at 30 samples/in is about 8 MB
 # of CSV, a 5.2 m tube about 0.75 MB.
 set -euo pipefail
@@ -24,7 +24,10 @@ for s in "${sizes[@]}"; do
 	n=${s%%:*} len=${s#*:}
 	dir="$work/insp-$n-$len"
 	rm -rf "$dir"
-	"$work/whorl" synth --tubes "$n" --length "$len" --raw 0 "$dir" >/dev/null 2>&1
+	# About 48 tubes per calibration group, so that each group closes
+	# within the procedure's four hours; the second group drifts.
+	groups=$((n / 48 > 2 ? n / 48 : 2))
+	"$work/whorl" synth --tubes "$n" --length "$len" --groups "$groups" --drifted-group 1 --raw 0 "$dir" >/dev/null 2>&1
 	"$work/whorl" demo --help >/dev/null 2>&1 # warm the binary
 	/usr/bin/time -f '%e %M' -o "$work/time.txt" "$work/whorl" inspect \
 		--procedure internal/demodata/demo-procedure.json --standard "$dir/standard.json" \
