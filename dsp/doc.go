@@ -70,12 +70,13 @@
 // interpolated onto the centre of each cycle. Channels are
 // named "<kHz>k-<coil>", for example "400k-diff" (ChannelLabel).
 //
-// Concurrency. Functions here keep no package state; a FiltFilter or
-// demodulator is not safe for concurrent use, everything else is.
-// DemodOptions.Workers splits the lock-in's first stage into time ranges
-// and filters tones concurrently, with the same output bits as one
-// worker. WelchPSD calls github.com/mjibson/go-dsp, whose FFT keeps package-level twiddle-factor
-// caches guarded by sync.RWMutex (fft/radix2.go, fft/bluestein.go at the
+// Concurrency. Functions here keep no package state (beyond a read-only
+// flag, set at start-up, saying whether the processor has AVX); a
+// FiltFilter or demodulator is not safe for concurrent use, everything
+// else is. DemodOptions.Workers splits the lock-in's first stage into time
+// ranges and filters tones concurrently, with the same output bits as one
+// worker. WelchPSD calls github.com/mjibson/go-dsp, whose FFT keeps
+// package-level twiddle-factor caches guarded by sync.RWMutex (fft/radix2.go, fft/bluestein.go at the
 // pinned version), so concurrent calls are safe; a test runs them
 // concurrently under the race detector. Each distinct segment length adds
 // one cached table for the life of the process.
