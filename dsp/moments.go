@@ -18,21 +18,8 @@ package dsp
 
 // momentsGo1 is the portable form of blockMoments1.
 func momentsGo1(x []float64, c []complex128) (a [2 * splineOrder]float64) {
-	var a1r, a1i, a2r, a2i, a3r, a3i, a4r, a4i float64
-	c = c[:len(x)]
-	for p, v := range x {
-		// The conversions round each product on its own, ruling out fused
-		// multiply-adds, so all targets agree bit for bit.
-		a1r += float64(v * real(c[p]))
-		a1i += float64(v * imag(c[p]))
-		a2r += a1r
-		a2i += a1i
-		a3r += a2r
-		a3i += a2i
-		a4r += a3r
-		a4i += a3i
-	}
-	return [2 * splineOrder]float64{a1r, a1i, a2r, a2i, a3r, a3i, a4r, a4i}
+	cascade(&a, x, c, 0)
+	return a
 }
 
 // momentsGo2 is the portable form of blockMoments2.
@@ -46,9 +33,27 @@ func momentsGo2(x []float64, c1, c2 []complex128) (a [4 * splineOrder]float64) {
 
 // extendMoments continues the running sums of a over k more samples of
 // value zero (a block cut short by the end of the record).
-func extendMoments(a *[2 * splineOrder]float64, k int) {
+func extendMoments(a *[2 * splineOrder]float64, k int) { cascade(a, nil, nil, k) }
+
+// cascade continues the running sums of a over the samples x mixed with
+// the carrier c (len(c) ≥ len(x)), then over zeros more samples of value
+// zero.
+func cascade(a *[2 * splineOrder]float64, x []float64, c []complex128, zeros int) {
 	a1r, a1i, a2r, a2i, a3r, a3i, a4r, a4i := a[0], a[1], a[2], a[3], a[4], a[5], a[6], a[7]
-	for range k {
+	c = c[:len(x)]
+	for p, v := range x {
+		// The conversions round each product on its own, ruling out fused
+		// multiply-adds, so all targets agree bit for bit.
+		a1r += float64(v * real(c[p]))
+		a1i += float64(v * imag(c[p]))
+		a2r += a1r
+		a2i += a1i
+		a3r += a2r
+		a3i += a2i
+		a4r += a3r
+		a4i += a3i
+	}
+	for range zeros {
 		a2r += a1r
 		a2i += a1i
 		a3r += a2r
