@@ -796,9 +796,9 @@ func (dm *demodulator) stage1Range(us [][]complex128, v []float64, freqsHz []flo
 			}
 		}
 	}
-	// mo holds each tone's block moments (moment path), two tones per
-	// read of the block; next those of the following block when the two
-	// were read together.
+	// mo holds each tone's block segment sums (moment path), two tones
+	// per read of the block; next those of the following block when the
+	// two were read together.
 	mo := make([][2 * splineOrder]float64, nf)
 	next := make([][2 * splineOrder]float64, nf)
 	ready := false
@@ -819,7 +819,7 @@ func (dm *demodulator) stage1Range(us [][]complex128, v []float64, freqsHz []flo
 				mo, next = next, mo
 				ready = false
 			case b+1 < bHi && base+2*d1 <= len(v):
-				blockPairMoments(v[base:base+2*d1], d1, cars, mo, next)
+				blockPairSums(v[base:base+2*d1], d1, cars, a, mo, next)
 				ready = true
 			default:
 				i := 0
@@ -831,10 +831,11 @@ func (dm *demodulator) stage1Range(us [][]complex128, v []float64, freqsHz []flo
 				if i < nf {
 					mixMoments1(blk, st[i].car, &mo[i])
 				}
-				if short := d1 - len(blk); short > 0 {
-					for i := range mo {
+				for i := range mo {
+					if short := d1 - len(blk); short > 0 {
 						extendMoments(&mo[i], short)
 					}
+					mo[i] = combineMoments(a, mo[i])
 				}
 			}
 		}
@@ -843,7 +844,7 @@ func (dm *demodulator) stage1Range(us [][]complex128, v []float64, freqsHz []flo
 			var sums [2 * splineOrder]float64
 			if len(blk) > 0 {
 				if dm.useMoments {
-					sums = combineMoments(a, mo[i])
+					sums = mo[i]
 				} else {
 					sums = blockSums(t.ct[:len(blk)], blk)
 				}

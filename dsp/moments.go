@@ -74,12 +74,23 @@ func mixMoments2(x []float64, c1, c2 []complex128, out *[4 * splineOrder]float64
 	blockMoments2(x, c1[:len(x)], c2[:len(x)], out)
 }
 
-// unpackPair splits the interleaved two-block moments of one tone (see
-// pairMoments1AVX) into the first block's a and the second's b.
+// unpackPair splits the interleaved two-block values of one tone (see
+// pairSums1AVX) into the first block's a and the second's b.
 func unpackPair(q []float64, a, b *[2 * splineOrder]float64) {
 	q = q[:4*splineOrder]
 	for j := 0; j < splineOrder; j++ {
 		a[2*j], a[2*j+1] = q[4*j], q[4*j+1]
 		b[2*j], b[2*j+1] = q[4*j+2], q[4*j+3]
+	}
+}
+
+// pairSumsGo is the portable form of blockPairSums.
+func pairSumsGo(x []float64, d1 int, cars [][]complex128, a *[splineOrder][splineOrder]float64, sa, sb [][2 * splineOrder]float64) {
+	for i, c := range cars {
+		var m [2 * splineOrder]float64
+		mixMoments1(x[:d1], c, &m)
+		sa[i] = combineMoments(a, m)
+		mixMoments1(x[d1:2*d1], c, &m)
+		sb[i] = combineMoments(a, m)
 	}
 }

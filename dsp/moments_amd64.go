@@ -17,44 +17,43 @@ func blockMoments2(x []float64, c1, c2 []complex128, out *[4 * splineOrder]float
 // (CPUID leaf 1, ECX bits 27 and 28; XGETBV: XMM and YMM state saved).
 func hasAVX() bool
 
-// pairMoments1AVX writes the block moments of the two blocks x[:d1] and
-// x[d1:2·d1] mixed with the carrier c to out, interleaved: running sum j
-// (0…3) of the first block at out[4j], out[4j+1] (re, im) and of the
-// second at out[4j+2], out[4j+3]. Needs AVX, len(x) ≥ 2·d1, len(c) ≥ d1.
+// pairSums1AVX writes the segment sums (see combineMoments, matrix a) of
+// the two blocks x[:d1] and x[d1:2·d1] mixed with the carrier c to out,
+// interleaved: sum k (0…3) of the first block at out[4k], out[4k+1] (re,
+// im) and of the second at out[4k+2], out[4k+3]. Needs AVX, len(x) ≥ 2·d1,
+// len(c) ≥ d1.
 //
 //go:noescape
-func pairMoments1AVX(x []float64, d1 int, c []complex128, out *[4 * splineOrder]float64)
+func pairSums1AVX(x []float64, d1 int, c []complex128, a *[splineOrder][splineOrder]float64, out *[4 * splineOrder]float64)
 
-// pairMoments2AVX is pairMoments1AVX for two carriers: the first tone's
-// sixteen values, then the second's.
+// pairSums2AVX is pairSums1AVX for two carriers: the first tone's sixteen
+// values, then the second's.
 //
 //go:noescape
-func pairMoments2AVX(x []float64, d1 int, c1, c2 []complex128, out *[8 * splineOrder]float64)
+func pairSums2AVX(x []float64, d1 int, c1, c2 []complex128, a *[splineOrder][splineOrder]float64, out *[8 * splineOrder]float64)
 
-// pairKernel reports whether blockPairMoments has a fast kernel here.
+// pairKernel reports whether blockPairSums has a fast kernel here.
 var pairKernel = hasAVX()
 
-// blockPairMoments writes the block moments of x[:d1] for every carrier to
-// a and those of x[d1:2·d1] to b (the two blocks read together); it
-// panics if x is shorter than 2·d1 or a carrier shorter than d1.
-func blockPairMoments(x []float64, d1 int, cars [][]complex128, a, b [][2 * splineOrder]float64) {
+// blockPairSums writes the segment sums (combineMoments with the matrix
+// a) of x[:d1] for every carrier to sa and those of x[d1:2·d1] to sb (the
+// two blocks read together); it panics if x is shorter than 2·d1 or a
+// carrier shorter than d1.
+func blockPairSums(x []float64, d1 int, cars [][]complex128, a *[splineOrder][splineOrder]float64, sa, sb [][2 * splineOrder]float64) {
 	x = x[:2*d1]
 	if !pairKernel {
-		for i, c := range cars {
-			mixMoments1(x[:d1], c, &a[i])
-			mixMoments1(x[d1:], c, &b[i])
-		}
+		pairSumsGo(x, d1, cars, a, sa, sb)
 		return
 	}
 	var buf [8 * splineOrder]float64
 	i := 0
 	for ; i+1 < len(cars); i += 2 {
-		pairMoments2AVX(x, d1, cars[i][:d1], cars[i+1][:d1], &buf)
-		unpackPair(buf[:4*splineOrder], &a[i], &b[i])
-		unpackPair(buf[4*splineOrder:], &a[i+1], &b[i+1])
+		pairSums2AVX(x, d1, cars[i][:d1], cars[i+1][:d1], a, &buf)
+		unpackPair(buf[:4*splineOrder], &sa[i], &sb[i])
+		unpackPair(buf[4*splineOrder:], &sa[i+1], &sb[i+1])
 	}
 	if i < len(cars) {
-		pairMoments1AVX(x, d1, cars[i][:d1], (*[4 * splineOrder]float64)(buf[:4*splineOrder]))
-		unpackPair(buf[:4*splineOrder], &a[i], &b[i])
+		pairSums1AVX(x, d1, cars[i][:d1], a, (*[4 * splineOrder]float64)(buf[:4*splineOrder]))
+		unpackPair(buf[:4*splineOrder], &sa[i], &sb[i])
 	}
 }

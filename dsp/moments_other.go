@@ -14,21 +14,9 @@ func blockMoments2(x []float64, c1, c2 []complex128, out *[4 * splineOrder]float
 	*out = momentsGo2(x, c1, c2)
 }
 
-// blockPairMoments writes the block moments of x[:d1] for every carrier to
-// a and those of x[d1:2·d1] to b; it panics if x is shorter than 2·d1 or a
-// carrier shorter than d1.
-func blockPairMoments(x []float64, d1 int, cars [][]complex128, a, b [][2 * splineOrder]float64) {
-	x = x[:2*d1]
-	i := 0
-	for ; i+1 < len(cars); i += 2 {
-		var q [4 * splineOrder]float64
-		mixMoments2(x[:d1], cars[i], cars[i+1], &q)
-		a[i], a[i+1] = [2 * splineOrder]float64(q[:2*splineOrder]), [2 * splineOrder]float64(q[2*splineOrder:])
-		mixMoments2(x[d1:], cars[i], cars[i+1], &q)
-		b[i], b[i+1] = [2 * splineOrder]float64(q[:2*splineOrder]), [2 * splineOrder]float64(q[2*splineOrder:])
-	}
-	if i < len(cars) {
-		mixMoments1(x[:d1], cars[i], &a[i])
-		mixMoments1(x[d1:], cars[i], &b[i])
-	}
+// blockPairSums writes the segment sums (combineMoments with the matrix
+// a) of x[:d1] for every carrier to sa and those of x[d1:2·d1] to sb; it
+// panics if x is shorter than 2·d1 or a carrier shorter than d1.
+func blockPairSums(x []float64, d1 int, cars [][]complex128, a *[splineOrder][splineOrder]float64, sa, sb [][2 * splineOrder]float64) {
+	pairSumsGo(x[:2*d1], d1, cars, a, sa, sb)
 }
