@@ -381,9 +381,10 @@ func (s SOS) filterState(dst, x []complex128, z [][2]complex128) {
 	}
 }
 
-// filterPair runs the sections p then q (states zp, zq) over x into dst
-// in one loop, with the operations of filterState's single-section loop.
-func filterPair(p, q Section, dst, x []complex128, zp, zq *[2]complex128) {
+// filterPairGo runs the sections p then q (states zp, zq) over x into
+// dst in one loop, with the operations of filterState's single-section
+// loop (the portable form of filterPair).
+func filterPairGo(p, q Section, dst, x []complex128, zp, zq *[2]complex128) {
 	pb0, pb1, pb2, pa1, pa2 := p.B[0], p.B[1], p.B[2], p.A[1], p.A[2]
 	qb0, qb1, qb2, qa1, qa2 := q.B[0], q.B[1], q.B[2], q.A[1], q.A[2]
 	p1r, p1i, p2r, p2i := real(zp[0]), imag(zp[0]), real(zp[1]), imag(zp[1])
