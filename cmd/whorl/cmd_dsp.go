@@ -48,7 +48,7 @@ Examples:
 			fs.Int("order", 4, "Butterworth order of the low-pass")
 			fs.String("settle", "", "settling time discarded per multiplex slot, e.g. 0.2ms")
 			fs.String("coil-length", "", "effective coil length for the flaw-band check, e.g. 2mm")
-			fs.Int("workers", 1, "frequencies demodulated at the same time (CPU cores to use)")
+			fs.Int("workers", 1, "goroutines for the lock-in (CPU cores to use); the output does not depend on it")
 			fs.Bool("json", false, "print the demodulation report as JSON")
 		},
 		run: runDemod,
