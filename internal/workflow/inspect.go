@@ -555,9 +555,12 @@ func analyseAll(ctx context.Context, st *store.Store, analyst *store.Session, gr
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			analyzers := map[string]*analysis.Analyzer{}
+			// One analyser at a time: it holds scratch buffers the size
+			// of a scan, and scans come grouped, so keeping one per group
+			// would make memory grow with the number of groups.
+			var analyzer groupAnalyzer
 			for j := range work {
-				r := analyseFile(ctx, j.file, groups, analyzers, opt)
+				r := analyseFile(ctx, j.file, groups, &analyzer, opt)
 				r.index = j.index
 				select {
 				case results <- r:
@@ -612,7 +615,13 @@ func analyseAll(ctx context.Context, st *store.Store, analyst *store.Session, gr
 	return ctx.Err()
 }
 
-func analyseFile(ctx context.Context, path string, groups map[string]*group, analyzers map[string]*analysis.Analyzer, opt InspectOptions) tubeResult {
+// groupAnalyzer is a worker's analyser and the group it was made for.
+type groupAnalyzer struct {
+	group string
+	a     *analysis.Analyzer
+}
+
+func analyseFile(ctx context.Context, path string, groups map[string]*group, ga *groupAnalyzer, opt InspectOptions) tubeResult {
 	r := tubeResult{file: path, component: strings.TrimSuffix(filepath.Base(path), filepath.Ext(path))}
 	s, size, sum, err := readScan(path, opt.Map)
 	if err != nil {
@@ -634,16 +643,15 @@ func analyseFile(ctx context.Context, path string, groups map[string]*group, ana
 		r.err = fmt.Errorf("%s: calibration group %q has no opening calibration scan", path, s.Meta.CalGroup)
 		return r
 	}
-	a := analyzers[g.name]
-	if a == nil {
-		a, err = analysis.NewAnalyzer(g.cal, opt.Procedure)
+	if ga.a == nil || ga.group != g.name {
+		a, err := analysis.NewAnalyzer(g.cal, opt.Procedure)
 		if err != nil {
 			r.err = fmt.Errorf("group %s: %w", g.name, err)
 			return r
 		}
-		analyzers[g.name] = a
+		ga.group, ga.a = g.name, a
 	}
-	inds, _, err := a.Analyze(ctx, s)
+	inds, _, err := ga.a.Analyze(ctx, s)
 	if err != nil {
 		r.err = fmt.Errorf("%s: %w", path, err)
 		return r
