@@ -184,7 +184,7 @@ func Inspect(ctx context.Context, opt InspectOptions) (*Summary, error) {
 
 	// Closing checks, recorded after the group's scans so that a failed
 	// check marks them invalid.
-	if err := checkGroups(ctx, st, analyst, groups, opt, now, sum); err != nil {
+	if err := checkGroups(ctx, st, analyst, groups, opt, sum); err != nil {
 		return sum, err
 	}
 	if err := summarise(ctx, st, opt, sum); err != nil {
@@ -792,7 +792,7 @@ func method(in *analysis.Indication) string {
 	return "pp phase"
 }
 
-func checkGroups(ctx context.Context, st *store.Store, analyst *store.Session, groups map[string]*group, opt InspectOptions, now func() time.Time, sum *Summary) error {
+func checkGroups(ctx context.Context, st *store.Store, analyst *store.Session, groups map[string]*group, opt InspectOptions, sum *Summary) error {
 	done, err := st.GroupChecks(ctx)
 	if err != nil {
 		return err
